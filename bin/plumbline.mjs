@@ -1,0 +1,8 @@
+#!/usr/bin/env node
+// Runs the TypeScript sources directly through tsx, so `npx plumbline` works
+// right after `npm ci` with no build step.
+import { register } from 'tsx/esm/api';
+
+register();
+const { main } = await import('../src/cli.ts');
+process.exitCode = main(process.argv.slice(2));

@@ -1,0 +1,136 @@
+/**
+ * Everything plumbline concludes about one characteristic, from its samples
+ * and ledger entries: baselines and limits per point, signals on each panel,
+ * and the recommendation. Pure: no files, no clock.
+ */
+import { type Diagnostic, hasErrors } from './diagnostics.ts';
+import type { Characteristic, IsoDate, LedgerEntry, ReviewConfig, Sample } from './model.ts';
+import { type Baseline, buildBaselines } from './limits/baselines.ts';
+import { type LedgerState, replayLedger } from './limits/ledger-state.ts';
+import { type Recommendation, recommend } from './review/recommend.ts';
+import { type Signal, evaluatePanel } from './signals/evaluate.ts';
+import { rule, rulesFor } from './signals/rule-sets.ts';
+import { type Limits, family } from './stats/index.ts';
+
+export interface PanelResult {
+  readonly values: readonly (number | null)[];
+  readonly limits: readonly (Limits | null)[];
+  readonly signals: readonly Signal[];
+}
+
+export interface Assessed {
+  readonly status: 'assessed';
+  readonly characteristic: Characteristic;
+  readonly samples: readonly Sample[];
+  /** Baseline index per sample. */
+  readonly baselineOf: readonly number[];
+  readonly baselines: readonly Baseline[];
+  readonly ledger: LedgerState;
+  readonly location: PanelResult;
+  readonly dispersion?: PanelResult;
+  readonly recommendation: Recommendation;
+  readonly diagnostics: readonly Diagnostic[];
+}
+
+export interface NotAssessed {
+  readonly status: 'not-assessed';
+  readonly characteristic: Characteristic;
+  readonly diagnostics: readonly Diagnostic[];
+  readonly history: readonly LedgerEntry[];
+}
+
+export type Assessment = Assessed | NotAssessed;
+
+export interface AnalyseInput {
+  readonly config: ReviewConfig;
+  readonly characteristic: Characteristic;
+  /** Samples through the end of the review period, in order. */
+  readonly samples: readonly Sample[];
+  /** Labels of points after the review period, so ledger entries naming them are recognised. */
+  readonly laterLabels: ReadonlySet<string>;
+  readonly ledger: readonly LedgerEntry[];
+  readonly ledgerFile: string;
+  /** Diagnostics already found reading this characteristic's data. */
+  readonly diagnostics: readonly Diagnostic[];
+  readonly asOf: IsoDate;
+}
+
+export function analyse(input: AnalyseInput): Assessment {
+  const { config, characteristic: ch, samples } = input;
+  const diagnostics: Diagnostic[] = [...input.diagnostics];
+  const replay = replayLedger(input.ledgerFile, ch.id, samples, input.ledger, input.laterLabels);
+  diagnostics.push(...replay.diagnostics);
+  if (hasErrors(diagnostics)) return { status: 'not-assessed', characteristic: ch, diagnostics, history: replay.state.history };
+
+  const fam = family(ch.chart);
+  const built = buildBaselines(fam, samples, replay.state, {
+    minPoints: config.minPoints,
+    standard: ch.standard,
+    ledgerFile: input.ledgerFile,
+    characteristic: ch.id,
+  });
+  diagnostics.push(...built.diagnostics);
+  if (hasErrors(diagnostics)) return { status: 'not-assessed', characteristic: ch, diagnostics, history: replay.state.history };
+
+  const { baselines } = built;
+  const baselineOf: number[] = [];
+  const locLimits: (Limits | null)[] = [];
+  const dispLimits: (Limits | null)[] = [];
+  baselines.forEach((b, k) => {
+    for (let i = b.start; i < b.end; i++) {
+      baselineOf.push(k);
+      locLimits.push(b.limits?.location[i - b.start] ?? null);
+      dispLimits.push(b.limits?.dispersion?.[i - b.start] ?? null);
+    }
+  });
+
+  // The dispersion panel is computed per baseline so that the first moving
+  // range of a baseline does not reach back into the previous one.
+  const locValues: number[] = [];
+  const dispValues: (number | null)[] = [];
+  for (const b of baselines) {
+    const v = fam.values(samples.slice(b.start, b.end));
+    locValues.push(...v.location);
+    if (v.dispersion) dispValues.push(...v.dispersion);
+  }
+
+  const explained = (i: number) => replay.state.excluded.has(i) || replay.state.reviewed.has(i);
+  const panelKind = fam.standardKind === 'variables' ? 'variables' : 'attributes';
+  const locSignals = evaluatePanel('location', { values: locValues, limits: locLimits }, baselines, rulesFor(config.rules, panelKind), explained);
+  const location: PanelResult = { values: locValues, limits: locLimits, signals: locSignals };
+  const dispersion: PanelResult | undefined = fam.dispersionLabel
+    ? {
+        values: dispValues,
+        limits: dispLimits,
+        signals: evaluatePanel('dispersion', { values: dispValues, limits: dispLimits }, baselines, rulesFor(config.rules, 'dispersion'), explained),
+      }
+    : undefined;
+
+  const recommendation = recommend({
+    characteristic: ch.id,
+    better: ch.better,
+    samples,
+    baselines,
+    signals: [...locSignals, ...(dispersion?.signals ?? [])],
+    changes: replay.state.changes,
+    period: config.period,
+    minPoints: config.minPoints,
+    freezeAfter: config.freezeAfter,
+    asOf: input.asOf,
+    refreshAfter: ch.chart === 'individuals' ? 100 : 25,
+    describeRule: (id) => rule(id)?.description ?? id,
+  });
+
+  return {
+    status: 'assessed',
+    characteristic: ch,
+    samples,
+    baselineOf,
+    baselines,
+    ledger: replay.state,
+    location,
+    ...(dispersion ? { dispersion } : {}),
+    recommendation,
+    diagnostics,
+  };
+}

@@ -1,0 +1,57 @@
+/**
+ * The one writer: puts a planned pack into --out atomically. Files go to a
+ * temporary folder beside --out, which then replaces --out by rename, so a
+ * reader never sees half a pack and a failed build leaves the previous one.
+ */
+import { existsSync, mkdirSync, readdirSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import path from 'node:path';
+
+export class OutputRefused extends Error {}
+
+/** Refuse an --out that would overwrite inputs or something that is not a pack. */
+export function checkOutDir(outDir: string, workspaceRoot: string, inputFiles: readonly string[]): void {
+  const out = path.resolve(outDir);
+  const root = path.resolve(workspaceRoot);
+  const inside = (child: string, parent: string) => {
+    const rel = path.relative(parent, child);
+    return rel === '' || (!rel.startsWith('..') && !path.isAbsolute(rel));
+  };
+  if (inside(root, out)) throw new OutputRefused(`--out ${outDir} is the workspace or a folder that contains it; choose a folder of its own, e.g. out/pack.`);
+  for (const f of inputFiles) {
+    const abs = path.resolve(root, f);
+    if (inside(abs, out)) throw new OutputRefused(`--out ${outDir} contains the input ${f}; choose another folder.`);
+    const dataDir = path.dirname(abs);
+    if (dataDir !== root && inside(out, dataDir)) throw new OutputRefused(`--out ${outDir} lies inside the data folder ${path.relative(root, dataDir)}; choose a folder outside it.`);
+  }
+  if (existsSync(out)) {
+    if (!statSync(out).isDirectory()) throw new OutputRefused(`--out ${outDir} is a file, not a folder.`);
+    const names = readdirSync(out);
+    if (names.length > 0 && !names.includes('manifest.json')) {
+      throw new OutputRefused(`--out ${outDir} is not empty and holds no earlier pack (no manifest.json); plumbline replaces --out whole, so point it at an empty or new folder.`);
+    }
+  }
+}
+
+export function writePack(outDir: string, files: ReadonlyMap<string, Uint8Array>): void {
+  const out = path.resolve(outDir);
+  const parent = path.dirname(out);
+  mkdirSync(parent, { recursive: true });
+  const stamp = `${process.pid}-${Date.now()}`;
+  const temp = path.join(parent, `.${path.basename(out)}.building-${stamp}`);
+  const old = path.join(parent, `.${path.basename(out)}.previous-${stamp}`);
+  mkdirSync(temp);
+  try {
+    for (const [name, bytes] of files) {
+      const target = path.join(temp, name);
+      mkdirSync(path.dirname(target), { recursive: true });
+      writeFileSync(target, bytes);
+    }
+    const hadOld = existsSync(out);
+    if (hadOld) renameSync(out, old);
+    renameSync(temp, out);
+    if (hadOld) rmSync(old, { recursive: true, force: true });
+  } catch (e) {
+    rmSync(temp, { recursive: true, force: true });
+    throw e;
+  }
+}

@@ -1,0 +1,171 @@
+/**
+ * summary.json: the machine-readable result of a build (contract in
+ * DESIGN.md, "Outputs"). Pure: built from the assessments alone.
+ */
+import type { Assessed, Assessment } from './analyse.ts';
+import type { Diagnostic } from './diagnostics.ts';
+import type { IsoDate, ReviewConfig } from './model.ts';
+import type { Signal } from './signals/evaluate.ts';
+import { family } from './stats/index.ts';
+import { TOOL } from './version.ts';
+
+export const SUMMARY_FORMAT = 1;
+
+function sizeOf(a: Assessed, i: number): Record<string, number> {
+  const o = a.samples[i]!.observation;
+  switch (o.kind) {
+    case 'measurements':
+      return o.values.length > 1 || a.characteristic.chart !== 'individuals' ? { n: o.values.length } : {};
+    case 'proportion':
+      return { defectives: o.defectives, inspected: o.inspected };
+    case 'count':
+      return { count: o.count };
+    case 'rate':
+      return { count: o.count, exposure: o.exposure };
+  }
+}
+
+function signalJson(a: Assessed, s: Signal) {
+  const label = (i: number) => a.samples[i]!.label;
+  return {
+    rule: s.rule,
+    panel: s.panel,
+    baseline: s.baseline,
+    side: s.side,
+    points: s.points.map(label),
+    flagged: s.flagged.map(label),
+    persistence: s.persistence,
+    explained: s.explained,
+  };
+}
+
+function flaggedBy(signals: readonly Signal[], i: number): string[] {
+  const ids = signals.filter((s) => s.flagged.includes(i)).map((s) => s.rule);
+  return [...new Set(ids)].sort();
+}
+
+function diagnosticJson(d: Diagnostic) {
+  return { severity: d.severity, ruleId: d.ruleId, file: d.file, line: d.line ?? null, column: d.column ?? null, message: d.message };
+}
+
+function assessedJson(a: Assessed, period: ReviewConfig['period']) {
+  const ch = a.characteristic;
+  const fam = family(ch.chart);
+  const label = (i: number) => a.samples[i]!.label;
+  const points = a.samples.map((s, i) => {
+    const l = a.location.limits[i] ?? null;
+    return {
+      label: s.label,
+      date: s.date,
+      value: a.location.values[i]!,
+      center: l?.center ?? null,
+      ucl: l?.ucl ?? null,
+      lcl: l?.lcl ?? null,
+      sigma: l?.sigma ?? null,
+      excluded: a.ledger.excluded.has(i),
+      signals: flaggedBy(a.location.signals, i),
+      baseline: a.baselineOf[i]!,
+      inPeriod: s.date >= period.from && s.date <= period.to,
+      ...sizeOf(a, i),
+    };
+  });
+  const dispersion = a.dispersion
+    ? {
+        statistic: fam.dispersionLabel,
+        points: a.samples.map((s, i) => {
+          const l = a.dispersion!.limits[i] ?? null;
+          return {
+            label: s.label,
+            date: s.date,
+            value: a.dispersion!.values[i] ?? null,
+            center: l?.center ?? null,
+            ucl: l?.ucl ?? null,
+            lcl: l?.lcl ?? null,
+            signals: flaggedBy(a.dispersion!.signals, i),
+          };
+        }),
+        signals: a.dispersion.signals.map((s) => signalJson(a, s)),
+      }
+    : null;
+  return {
+    id: ch.id,
+    name: ch.name,
+    chart: ch.chart,
+    unit: ch.unit,
+    better: ch.better,
+    safety: ch.safety,
+    tags: ch.tags,
+    spec: ch.spec ?? null,
+    status: 'assessed' as const,
+    statistic: fam.statisticLabel,
+    points,
+    dispersion,
+    baselines: a.baselines.map((b) => ({
+      start: label(b.start),
+      end: b.end > b.start ? label(b.end - 1) : null,
+      status: b.status,
+      source: b.source,
+      basis: b.basis.map(label),
+      usable: b.usable,
+      frozenAt: b.frozenBy?.point ?? null,
+      reason: b.opened?.reason ?? null,
+      estimate: b.limits?.estimate ?? null,
+    })),
+    signals: a.location.signals.map((s) => signalJson(a, s)),
+    recommendation: {
+      action: a.recommendation.action,
+      reasons: a.recommendation.reasons,
+      ledger: a.recommendation.ledger,
+      changePoint: a.recommendation.changePoint === undefined ? null : label(a.recommendation.changePoint),
+    },
+    capability: null,
+    diagnostics: a.diagnostics.map(diagnosticJson),
+  };
+}
+
+export function buildSummary(config: ReviewConfig, assessments: readonly Assessment[], global: readonly Diagnostic[], asOf: IsoDate) {
+  const actions: Record<string, number> = { keep: 0, freeze: 0, 're-baseline': 0, investigate: 0 };
+  for (const a of assessments) if (a.status === 'assessed') actions[a.recommendation.action]!++;
+  return {
+    format: SUMMARY_FORMAT,
+    tool: TOOL,
+    title: config.title,
+    organisation: config.organisation,
+    period: config.period,
+    asOf,
+    rules: config.rules,
+    minPoints: config.minPoints,
+    freezeAfter: config.freezeAfter,
+    counts: {
+      characteristics: assessments.length,
+      assessed: assessments.filter((a) => a.status === 'assessed').length,
+      notAssessed: assessments.filter((a) => a.status !== 'assessed').length,
+      actions,
+    },
+    characteristics: assessments.map((a) =>
+      a.status === 'assessed'
+        ? assessedJson(a, config.period)
+        : {
+            id: a.characteristic.id,
+            name: a.characteristic.name,
+            chart: a.characteristic.chart,
+            unit: a.characteristic.unit,
+            better: a.characteristic.better,
+            safety: a.characteristic.safety,
+            tags: a.characteristic.tags,
+            spec: a.characteristic.spec ?? null,
+            status: 'not-assessed' as const,
+            points: [],
+            dispersion: null,
+            baselines: [],
+            signals: [],
+            recommendation: null,
+            capability: null,
+            diagnostics: a.diagnostics.map(diagnosticJson),
+          },
+    ),
+    diagnostics: global.map(diagnosticJson),
+  };
+}
+
+export type Summary = ReturnType<typeof buildSummary>;

@@ -1,0 +1,93 @@
+/**
+ * A CSV file as a header and rows that remember their line. Accepts a UTF-8
+ * byte-order mark and any mix of CRLF, LF and CR line ends; reports a broken
+ * quote, a duplicated or empty header name and a row of the wrong length.
+ */
+import { parse } from 'csv-parse/sync';
+import { type Diagnostic, error } from '../diagnostics.ts';
+
+export interface CsvRow {
+  /** Line of the row's first character (1-based). */
+  readonly line: number;
+  readonly cells: readonly string[];
+}
+
+export interface CsvTable {
+  readonly header: readonly string[];
+  readonly headerLine: number;
+  readonly rows: readonly CsvRow[];
+}
+
+interface Parsed {
+  record: string[];
+  info: { lines: number };
+}
+
+const NEWLINES = /\r\n|\n|\r/g;
+
+export function readCsvTable(text: string, file: string, characteristic?: string): { table?: CsvTable; diagnostics: Diagnostic[] } {
+  const where = (line?: number, column?: number) => ({ file, line, column, characteristic });
+  if (text.includes('\u0000')) {
+    return { diagnostics: [error('csv/not-text', where(1), 'The file is not UTF-8 text (it holds NUL bytes; UTF-16 perhaps). Save it as UTF-8 CSV.')] };
+  }
+  let records: Parsed[];
+  try {
+    records = parse(text, {
+      info: true,
+      bom: true,
+      relax_column_count: true,
+      skip_empty_lines: true,
+      record_delimiter: ['\r\n', '\n', '\r'],
+    }) as unknown as Parsed[];
+  } catch (e) {
+    const err = e as { code?: string; lines?: number; message?: string };
+    const plain =
+      err.code === 'CSV_QUOTE_NOT_CLOSED'
+        ? 'A quoted field is never closed; check the quote marks.'
+        : err.code === 'INVALID_OPENING_QUOTE' || err.code === 'CSV_INVALID_CLOSING_QUOTE'
+          ? 'A quote mark stands inside a field that is not quoted; wrap the field in quotes and double the quote mark.'
+          : `The CSV cannot be read: ${String(err.message).split('\n')[0]}`;
+    return { diagnostics: [error('csv/syntax', where(err.lines ?? 1), plain)] };
+  }
+  const rows: CsvRow[] = records
+    .map((r) => ({ line: r.info.lines - r.record.reduce((n, c) => n + (c.match(NEWLINES)?.length ?? 0), 0), cells: r.record }))
+    // A row of nothing but empty cells (",,,") carries no data.
+    .filter((r) => r.cells.some((c) => c.trim() !== ''));
+  const headerRow = rows.shift();
+  if (!headerRow) return { diagnostics: [error('csv/empty', where(1), 'The file is empty; it needs a header row naming its columns.')] };
+
+  const diagnostics: Diagnostic[] = [];
+  const header = headerRow.cells.map((h) => h.trim());
+  const seen = new Set<string>();
+  header.forEach((h, i) => {
+    if (h === '') {
+      if (i === header.length - 1) return; // a trailing delimiter
+      diagnostics.push(error('csv/empty-header', where(headerRow.line, columnOf(header, i)), `Column ${i + 1} of the header has no name.`));
+    } else if (seen.has(h)) {
+      diagnostics.push(error('csv/duplicate-column', where(headerRow.line, columnOf(header, i)), `Column "${h}" appears twice in the header.`));
+    }
+    seen.add(h);
+  });
+  // A trailing delimiter on the header (and on rows) leaves an empty last column; drop it.
+  const trailing = header.length > 1 && header.at(-1) === '';
+  const width = trailing ? header.length - 1 : header.length;
+  const body: CsvRow[] = [];
+  for (const r of rows) {
+    const cells = trailing || (r.cells.length === width + 1 && r.cells.at(-1)!.trim() === '') ? r.cells.slice(0, width) : r.cells;
+    if (cells.length !== width) {
+      diagnostics.push(
+        error('csv/row-length', where(r.line), `This row has ${cells.length} field${cells.length === 1 ? '' : 's'}; the header has ${width}.`),
+      );
+      continue;
+    }
+    body.push({ line: r.line, cells: cells.map((c) => c.trim()) });
+  }
+  return { table: { header: header.slice(0, width), headerLine: headerRow.line, rows: body }, diagnostics };
+}
+
+/** Approximate character column of field i in a simple (unquoted) line. */
+export function columnOf(cells: readonly string[], i: number): number {
+  let col = 1;
+  for (let k = 0; k < i; k++) col += (cells[k]?.length ?? 0) + 1;
+  return col;
+}

@@ -1,0 +1,195 @@
+/**
+ * A characteristic's data CSV into samples: one row per point, or for the
+ * subgroup families one row per measurement with rows of the same label (or
+ * date) forming a subgroup. Dates must not go backwards.
+ */
+import { type Diagnostic, error, warning } from '../diagnostics.ts';
+import type { Characteristic, Observation, Sample } from '../model.ts';
+import { MAX_SUBGROUP, MIN_SUBGROUP } from '../stats/constants.ts';
+import { family } from '../stats/index.ts';
+import { type CsvTable, columnOf, readCsvTable } from './csv-table.ts';
+import { dateProblem } from './dates.ts';
+import { parseNumberCell } from './numbers.ts';
+
+const COLUMNS: Record<Observation['kind'], readonly string[]> = {
+  measurements: ['date', 'value'],
+  proportion: ['date', 'defectives', 'inspected'],
+  count: ['date', 'count'],
+  rate: ['date', 'count', 'exposure'],
+};
+
+export function requiredColumns(ch: Characteristic): readonly string[] {
+  return COLUMNS[family(ch.chart).observation];
+}
+
+export function readDataFile(text: string, ch: Characteristic): { samples: Sample[]; diagnostics: Diagnostic[] } {
+  const file = ch.data;
+  const read = readCsvTable(text, file, ch.id);
+  const diagnostics = [...read.diagnostics];
+  if (!read.table) return { samples: [], diagnostics };
+  const samples = rowsToSamples(read.table, ch, diagnostics);
+  return { samples, diagnostics };
+}
+
+function rowsToSamples(table: CsvTable, ch: Characteristic, diagnostics: Diagnostic[]): Sample[] {
+  const file = ch.data;
+  const where = (line: number, column?: number) => ({ file, line, column, characteristic: ch.id });
+  const kind = family(ch.chart).observation;
+  const required = COLUMNS[kind];
+  const allowed = new Set([...required, 'label']);
+  const col = new Map(table.header.map((h, i) => [h, i]));
+  let broken = false;
+  for (const name of required) {
+    if (!col.has(name)) {
+      diagnostics.push(
+        error('data/missing-column', where(table.headerLine), `Column "${name}" is missing; a ${ch.chart} chart reads ${required.join(', ')} (and label, optionally).`),
+      );
+      broken = true;
+    }
+  }
+  table.header.forEach((h, i) => {
+    if (!allowed.has(h) && h !== '') {
+      diagnostics.push(
+        error('data/unknown-column', where(table.headerLine, columnOf(table.header, i)), `Column "${h}" is not read by a ${ch.chart} chart; expected ${required.join(', ')} (and label, optionally).`),
+      );
+      broken = true;
+    }
+  });
+  if (broken) return [];
+  if (table.rows.length === 0) {
+    diagnostics.push(warning('data/no-rows', where(table.headerLine), 'The file has a header but no data rows yet.'));
+    return [];
+  }
+
+  const cell = (cells: readonly string[], name: string) => (col.has(name) ? cells[col.get(name)!]! : '');
+  const at = (cells: readonly string[], name: string) => columnOf(cells, col.get(name)!);
+  const rows: { line: number; label: string; date: string; observation: Observation | number }[] = [];
+  let lastDate = '';
+  let lastDateLine = 0;
+  for (const r of table.rows) {
+    let ok = true;
+    const date = cell(r.cells, 'date');
+    const dp = dateProblem(date);
+    if (dp) {
+      diagnostics.push(error('data/bad-date', where(r.line, at(r.cells, 'date')), `Column "date" ${dp}.`));
+      ok = false;
+    } else if (date < lastDate) {
+      diagnostics.push(
+        error('data/date-order', where(r.line, at(r.cells, 'date')), `Date ${date} comes after ${lastDate} (line ${lastDateLine}); rows must be in date order.`),
+      );
+      ok = false;
+    } else {
+      lastDate = date;
+      lastDateLine = r.line;
+    }
+    const num = (name: string, check?: (v: number) => string | null): number | undefined => {
+      const parsed = parseNumberCell(cell(r.cells, name));
+      if (!parsed.ok) {
+        diagnostics.push(error('data/not-a-number', where(r.line, at(r.cells, name)), `Column "${name}" ${parsed.problem}.`));
+        ok = false;
+        return undefined;
+      }
+      const problem = check?.(parsed.value);
+      if (problem) {
+        diagnostics.push(error('data/out-of-range', where(r.line, at(r.cells, name)), `Column "${name}" ${problem}.`));
+        ok = false;
+        return undefined;
+      }
+      return parsed.value;
+    };
+    const wholeCount = (v: number) => (v < 0 ? `is ${v}; a count cannot be negative` : Number.isInteger(v) ? null : `is ${v}; a count must be a whole number`);
+    let observation: Observation | number | undefined;
+    switch (kind) {
+      case 'measurements':
+        observation = num('value');
+        break;
+      case 'count': {
+        const count = num('count', wholeCount);
+        if (count !== undefined) observation = { kind, count };
+        break;
+      }
+      case 'proportion': {
+        const defectives = num('defectives', wholeCount);
+        const inspected = num('inspected', (v) => wholeCount(v) ?? (v === 0 ? 'is 0; at least one unit must be inspected' : null));
+        if (defectives !== undefined && inspected !== undefined) {
+          if (defectives > inspected) {
+            diagnostics.push(
+              error('data/out-of-range', where(r.line, at(r.cells, 'defectives')), `${defectives} defectives out of ${inspected} inspected: defectives cannot exceed inspected.`),
+            );
+            ok = false;
+          } else {
+            observation = { kind, defectives, inspected };
+          }
+        }
+        break;
+      }
+      case 'rate': {
+        const count = num('count', wholeCount);
+        const exposure = num('exposure', (v) => (v <= 0 ? `is ${v}; exposure must be above 0` : null));
+        if (count !== undefined && exposure !== undefined) observation = { kind, count, exposure };
+        break;
+      }
+    }
+    const label = cell(r.cells, 'label') || date;
+    if (ok && observation !== undefined) rows.push({ line: r.line, label, date, observation });
+  }
+  if (kind === 'measurements') return groupMeasurements(rows as { line: number; label: string; date: string; observation: number }[], ch, diagnostics);
+  return uniquePoints(rows as { line: number; label: string; date: string; observation: Observation }[], ch, diagnostics);
+}
+
+function uniquePoints(rows: { line: number; label: string; date: string; observation: Observation }[], ch: Characteristic, diagnostics: Diagnostic[]): Sample[] {
+  const seen = new Map<string, number>();
+  const out: Sample[] = [];
+  for (const r of rows) {
+    const first = seen.get(r.label);
+    if (first !== undefined) {
+      diagnostics.push(
+        error('data/duplicate-point', { file: ch.data, line: r.line, characteristic: ch.id }, `Point "${r.label}" appears again (first at line ${first}); each row must name a different point (add a label column to tell rows with the same date apart).`),
+      );
+      continue;
+    }
+    seen.set(r.label, r.line);
+    out.push({ label: r.label, date: r.date, line: r.line, observation: r.observation });
+  }
+  return out;
+}
+
+function groupMeasurements(rows: { line: number; label: string; date: string; observation: number }[], ch: Characteristic, diagnostics: Diagnostic[]): Sample[] {
+  const where = (line: number) => ({ file: ch.data, line, characteristic: ch.id });
+  if (ch.chart === 'individuals') {
+    return uniquePoints(rows.map((r) => ({ ...r, observation: { kind: 'measurements', values: [r.observation] } })), ch, diagnostics);
+  }
+  const out: Sample[] = [];
+  const closed = new Map<string, number>();
+  let current: { label: string; date: string; line: number; values: number[] } | undefined;
+  const close = () => {
+    if (!current) return;
+    const n = current.values.length;
+    if (n < MIN_SUBGROUP || n > MAX_SUBGROUP) {
+      diagnostics.push(
+        error('data/subgroup-size', where(current.line), `Subgroup "${current.label}" has ${n} measurement${n === 1 ? '' : 's'}; a ${ch.chart} chart needs ${MIN_SUBGROUP} to ${MAX_SUBGROUP}.`),
+      );
+    } else {
+      out.push({ label: current.label, date: current.date, line: current.line, observation: { kind: 'measurements', values: current.values } });
+    }
+    closed.set(current.label, current.line);
+  };
+  for (const r of rows) {
+    if (current && r.label === current.label) {
+      current.values.push(r.observation);
+      continue;
+    }
+    close();
+    const earlier = closed.get(r.label);
+    if (earlier !== undefined) {
+      diagnostics.push(
+        error('data/duplicate-point', where(r.line), `Subgroup "${r.label}" appears again after other rows (it starts at line ${earlier}); keep a subgroup's rows together.`),
+      );
+      current = undefined;
+      continue;
+    }
+    current = { label: r.label, date: r.date, line: r.line, values: [r.observation] };
+  }
+  close();
+  return out;
+}

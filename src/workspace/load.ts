@@ -1,0 +1,128 @@
+/**
+ * Reading a workspace: the only stage that touches input files. Returns the
+ * typed configuration, each characteristic's samples and ledger entries, the
+ * bytes of every input (for the manifest) and all diagnostics. Input files
+ * are only ever read.
+ */
+import { readFileSync, realpathSync, statSync } from 'node:fs';
+import path from 'node:path';
+import { type Diagnostic, error, info } from '../diagnostics.ts';
+import type { Characteristic, LedgerEntry, ReviewConfig, Sample } from '../model.ts';
+import { readDataFile } from './data-file.ts';
+import { LEDGER_FILE, readLedger } from './ledger-file.ts';
+import { REVIEW_FILE, dataFieldLine, readReview } from './review-file.ts';
+
+export interface CharacteristicInput {
+  readonly characteristic: Characteristic;
+  /** Samples through the end of the review period. */
+  readonly samples: readonly Sample[];
+  readonly laterLabels: ReadonlySet<string>;
+  readonly ledger: readonly LedgerEntry[];
+  readonly diagnostics: readonly Diagnostic[];
+}
+
+export interface Workspace {
+  readonly root: string;
+  readonly config: ReviewConfig;
+  readonly characteristics: readonly CharacteristicInput[];
+  /** Problems that belong to no one characteristic (e.g. a ledger row naming an unknown one). */
+  readonly diagnostics: readonly Diagnostic[];
+  /** Every input file read, relative path → bytes, for the manifest's fingerprints. */
+  readonly inputs: ReadonlyMap<string, Uint8Array>;
+}
+
+export type LoadResult =
+  | { readonly ok: true; readonly workspace: Workspace }
+  | { readonly ok: false; readonly diagnostics: readonly Diagnostic[] };
+
+/** Files larger than this are refused rather than read into memory. */
+export const MAX_INPUT_BYTES = 512 * 1024 * 1024;
+
+function readText(file: string): { text?: string; bytes?: Uint8Array; problem?: string } {
+  try {
+    const st = statSync(file);
+    if (st.isDirectory()) return { problem: 'is a folder, not a file' };
+    if (st.size > MAX_INPUT_BYTES) return { problem: `is ${st.size} bytes; files above ${MAX_INPUT_BYTES} bytes are refused` };
+    const bytes = readFileSync(file);
+    return { bytes, text: new TextDecoder('utf-8', { fatal: false }).decode(bytes) };
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    return { problem: code === 'ENOENT' ? 'does not exist' : code === 'EACCES' ? 'cannot be read (permission denied)' : `cannot be read (${code ?? String(e)})` };
+  }
+}
+
+export function loadWorkspace(dir: string): LoadResult {
+  const root = path.resolve(dir);
+  const reviewPath = path.join(root, REVIEW_FILE);
+  const review = readText(reviewPath);
+  if (review.text === undefined) {
+    return { ok: false, diagnostics: [error('workspace/no-review', { file: REVIEW_FILE }, `${REVIEW_FILE} ${review.problem} in ${root}; a workspace needs one.`)] };
+  }
+  const parsed = readReview(review.text);
+  if (!parsed.config) return { ok: false, diagnostics: parsed.diagnostics };
+  const config = parsed.config;
+  const inputs = new Map<string, Uint8Array>([[REVIEW_FILE, review.bytes!]]);
+
+  // Data paths must stay inside the workspace, also through symbolic links.
+  const realRoot = realpathSync(root);
+  const pathProblems: Diagnostic[] = [];
+  config.characteristics.forEach((c, i) => {
+    const where = { file: REVIEW_FILE, ...dataFieldLine(review.text!, i) };
+    const resolved = path.resolve(root, c.data);
+    const rel = path.relative(root, resolved);
+    if (path.isAbsolute(c.data) || rel.startsWith('..') || rel === '') {
+      pathProblems.push(error('review/data-outside', where, `Data path "${c.data}" of "${c.id}" leads outside the workspace; give a path inside it.`));
+      return;
+    }
+    try {
+      const real = realpathSync(resolved);
+      const realRel = path.relative(realRoot, real);
+      if (realRel.startsWith('..') || path.isAbsolute(realRel)) {
+        pathProblems.push(error('review/data-outside', where, `Data path "${c.data}" of "${c.id}" is a link to a file outside the workspace.`));
+      }
+    } catch {
+      // A missing file is that characteristic's problem, reported when it is read.
+    }
+  });
+  if (pathProblems.length > 0) return { ok: false, diagnostics: pathProblems };
+
+  const ids = new Set(config.characteristics.map((c) => c.id));
+  const global: Diagnostic[] = [];
+  let ledger: LedgerEntry[] = [];
+  const perLedger = new Map<string, Diagnostic[]>();
+  const ledgerText = readText(path.join(root, LEDGER_FILE));
+  if (ledgerText.text === undefined) {
+    global.push(info('ledger/none', { file: LEDGER_FILE }, `No ${LEDGER_FILE} (${ledgerText.problem}); every characteristic starts with trial limits and no decisions.`));
+  } else {
+    inputs.set(LEDGER_FILE, ledgerText.bytes!);
+    const read = readLedger(ledgerText.text, ids);
+    ledger = read.entries;
+    for (const d of read.diagnostics) {
+      if (d.characteristic) perLedger.set(d.characteristic, [...(perLedger.get(d.characteristic) ?? []), d]);
+      else global.push(d);
+    }
+  }
+
+  const characteristics = config.characteristics.map((c): CharacteristicInput => {
+    const file = readText(path.join(root, c.data));
+    const own = [...(perLedger.get(c.id) ?? [])];
+    const entries = ledger.filter((e) => e.characteristic === c.id);
+    if (file.text === undefined) {
+      own.unshift(error('data/unreadable', { file: c.data, characteristic: c.id }, `Data file ${c.data} ${file.problem}.`));
+      return { characteristic: c, samples: [], laterLabels: new Set(), ledger: entries, diagnostics: own };
+    }
+    inputs.set(c.data, file.bytes!);
+    const read = readDataFile(file.text, c);
+    own.unshift(...read.diagnostics);
+    const inside = read.samples.filter((s) => s.date <= config.period.to);
+    const later = read.samples.filter((s) => s.date > config.period.to);
+    if (later.length > 0) {
+      own.push(
+        info('data/after-period', { file: c.data, line: later[0]!.line, characteristic: c.id }, `${later.length} point${later.length === 1 ? '' : 's'} dated after the review period (${config.period.to}) ${later.length === 1 ? 'is' : 'are'} left for a later review.`),
+      );
+    }
+    return { characteristic: c, samples: inside, laterLabels: new Set(later.map((s) => s.label)), ledger: entries, diagnostics: own };
+  });
+
+  return { ok: true, workspace: { root, config, characteristics, diagnostics: global, inputs } };
+}
