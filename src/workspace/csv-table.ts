@@ -47,7 +47,8 @@ export function readCsvTable(text: string, file: string, characteristic?: string
         : err.code === 'INVALID_OPENING_QUOTE' || err.code === 'CSV_INVALID_CLOSING_QUOTE'
           ? 'A quote mark stands inside a field that is not quoted; wrap the field in quotes and double the quote mark.'
           : `The CSV cannot be read: ${String(err.message).split('\n')[0]}`;
-    return { diagnostics: [error('csv/syntax', where(err.lines ?? 1), plain)] };
+    const line = err.code === 'CSV_QUOTE_NOT_CLOSED' ? (openQuoteLine(text) ?? err.lines ?? 1) : (err.lines ?? 1);
+    return { diagnostics: [error('csv/syntax', where(line), plain)] };
   }
   const rows: CsvRow[] = records
     .map((r) => ({ line: r.info.lines - r.record.reduce((n, c) => n + (c.match(NEWLINES)?.length ?? 0), 0), cells: r.record }))
@@ -90,4 +91,29 @@ export function columnOf(cells: readonly string[], i: number): number {
   let col = 1;
   for (let k = 0; k < i; k++) col += (cells[k]?.length ?? 0) + 1;
   return col;
+}
+
+/** The line where a quoted field opens and is never closed (csv-parse reports the end of the file instead). */
+function openQuoteLine(text: string): number | undefined {
+  let line = 1;
+  let inQuote = false;
+  let opened = 0;
+  let fieldStart = true;
+  for (let i = 0; i < text.length; i++) {
+    const ch = text[i]!;
+    if (inQuote) {
+      if (ch === '"') {
+        if (text[i + 1] === '"') i++;
+        else inQuote = false;
+      } else if (ch === '\n' || (ch === '\r' && text[i + 1] !== '\n')) line++;
+      continue;
+    }
+    if (ch === '"' && fieldStart) {
+      inQuote = true;
+      opened = line;
+    }
+    if (ch === '\n' || (ch === '\r' && text[i + 1] !== '\n')) line++;
+    fieldStart = ch === ',' || ch === '\n' || ch === '\r';
+  }
+  return inQuote ? opened : undefined;
 }

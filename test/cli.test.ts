@@ -1,0 +1,114 @@
+/** The command line as a user meets it: the real bin, exit codes, what is (not) written, no stack traces for user mistakes. */
+import { spawnSync } from 'node:child_process';
+import { createHash } from 'node:crypto';
+import { cpSync, existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import { afterAll, describe, expect, it } from 'vitest';
+
+const ROOT = path.join(import.meta.dirname, '..');
+const BIN = path.join(ROOT, 'bin/plumbline.mjs');
+const FIXTURE = path.join(ROOT, 'test/fixtures/engine');
+const temp = mkdtempSync(path.join(tmpdir(), 'plumbline-cli-'));
+afterAll(() => rmSync(temp, { recursive: true, force: true }));
+
+function cli(...args: string[]) {
+  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: 'utf8', env: { ...process.env, NO_COLOR: '1' } });
+  return { code: r.status, out: r.stdout, err: r.stderr };
+}
+
+function hashTree(dir: string): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const name of readdirSync(dir, { recursive: true }) as string[]) {
+    const p = path.join(dir, name);
+    try {
+      out[name] = createHash('sha256').update(readFileSync(p)).digest('hex');
+    } catch {
+      // a folder
+    }
+  }
+  return out;
+}
+
+describe('plumbline CLI', () => {
+  it('--version prints the package version; --help lists the commands', () => {
+    const pkg = JSON.parse(readFileSync(path.join(ROOT, 'package.json'), 'utf8'));
+    expect(cli('--version').out.trim()).toBe(pkg.version);
+    const help = cli('--help');
+    expect(help.code).toBe(0);
+    expect(help.out).toMatch(/plumbline check <workspace>/);
+    expect(help.out).toMatch(/plumbline build <workspace> --out <dir>/);
+    expect(cli('build', '--help').out).toMatch(/--date/);
+  });
+  it('build writes summary.json and manifest.json, exits 0, and leaves the inputs as they were', () => {
+    const before = hashTree(FIXTURE);
+    const out = path.join(temp, 'pack');
+    const r = cli('build', FIXTURE, '--out', out);
+    expect(r.code).toBe(0);
+    expect(r.out).toMatch(/Built 10 characteristics/);
+    expect(readdirSync(out).sort()).toEqual(['manifest.json', 'summary.json']);
+    expect(hashTree(FIXTURE)).toEqual(before);
+  });
+  it('building twice gives byte-identical summary.json and manifest.json', () => {
+    const a = path.join(temp, 'twice-a');
+    const b = path.join(temp, 'twice-b');
+    cli('build', FIXTURE, '--out', a);
+    cli('build', FIXTURE, '--out', b);
+    for (const f of ['summary.json', 'manifest.json']) expect(readFileSync(path.join(a, f))).toEqual(readFileSync(path.join(b, f)));
+  });
+  it('a characteristic with bad data: exit 1, the rest still built, the problem printed as file:line', () => {
+    const ws = path.join(temp, 'bad-data');
+    cpSync(FIXTURE, ws, { recursive: true });
+    writeFileSync(path.join(ws, 'data/wall.csv'), readFileSync(path.join(ws, 'data/wall.csv'), 'utf8').replace('\n2026-06-15,1.4\n', '\n2026-06-15,abc\n'));
+    const out = path.join(temp, 'bad-data-pack');
+    const r = cli('build', ws, '--out', out);
+    expect(r.code).toBe(1);
+    expect(r.err).toMatch(/data\/wall\.csv:6:\d+: error Column "value" "abc" is not a number/);
+    expect(r.err).not.toMatch(/\bat .*\.ts:\d+/);
+    const summary = JSON.parse(readFileSync(path.join(out, 'summary.json'), 'utf8'));
+    const wall = summary.characteristics.find((c: { id: string }) => c.id === 'wall');
+    expect(wall.status).toBe('not-assessed');
+    expect(summary.counts.assessed).toBe(9);
+  });
+  it('a broken review.yaml: exit 2, nothing written, no stack trace', () => {
+    const ws = path.join(temp, 'bad-review');
+    cpSync(FIXTURE, ws, { recursive: true });
+    writeFileSync(path.join(ws, 'review.yaml'), 'title: x\nperiod: {from: 2026-01-01, to: 2026-02-01}\ncharacteristics: []\n');
+    const out = path.join(temp, 'bad-review-pack');
+    const r = cli('build', ws, '--out', out);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/review\.yaml:3:\d+: error "characteristics" must list at least one characteristic/);
+    expect(r.err).not.toMatch(/\n\s+at /);
+    expect(existsSync(out)).toBe(false);
+  });
+  it('usage mistakes exit 2 with a hint: unknown command, unknown option, missing --out, --out over the workspace', () => {
+    const cmd = cli('buidl', FIXTURE);
+    expect(cmd.code).toBe(2);
+    expect(cmd.err).toMatch(/did you mean "build"/);
+    const opt = cli('build', FIXTURE, '--otu', 'x');
+    expect(opt.code).toBe(2);
+    expect(opt.err).toMatch(/did you mean --out/);
+    expect(cli('build', FIXTURE).err).toMatch(/needs --out/);
+    const over = cli('build', FIXTURE, '--out', FIXTURE);
+    expect(over.code).toBe(2);
+    expect(over.err).toMatch(/is the workspace or a folder that contains it/);
+    const missing = cli('check', path.join(temp, 'nowhere'));
+    expect(missing.code).toBe(2);
+    expect(missing.err).toMatch(/review\.yaml does not exist/);
+  });
+  it('refuses to replace a non-empty folder that is not a pack', () => {
+    const out = path.join(temp, 'precious');
+    cpSync(path.join(FIXTURE, 'data'), out, { recursive: true });
+    const r = cli('build', FIXTURE, '--out', out);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/not empty and holds no earlier pack/);
+    expect(readdirSync(out)).toContain('torque.csv');
+  });
+  it('check writes nothing and exits 0 on a good workspace', () => {
+    const before = readdirSync(FIXTURE).sort();
+    const r = cli('check', FIXTURE);
+    expect(r.code).toBe(0);
+    expect(r.out).toMatch(/No errors; 10 characteristics can be assessed/);
+    expect(readdirSync(FIXTURE).sort()).toEqual(before);
+  });
+});
