@@ -11,7 +11,16 @@ import { TOOL } from './version.ts';
 
 export const SUMMARY_FORMAT = 1;
 
-function sizeOf(a: Assessed, i: number): Record<string, number> {
+/** The counts behind a point's plotted value. */
+interface PointCounts {
+  n?: number;
+  defectives?: number;
+  inspected?: number;
+  count?: number;
+  exposure?: number;
+}
+
+function sizeOf(a: Assessed, i: number): PointCounts {
   const o = a.samples[i]!.observation;
   switch (o.kind) {
     case 'measurements':
