@@ -4,7 +4,8 @@
  * scaled by nᵢ.
  */
 import type { Sample, Standard } from '../model.ts';
-import { type ChartFamily, expectKind, pick, sum, threeSigma } from './family.ts';
+import { type ChartFamily, expectKind, threeSigma } from './family.ts';
+import { pooledFraction } from './p.ts';
 
 function limitsAt(samples: readonly Sample[], pBar: number) {
   return samples.map((s) => {
@@ -23,8 +24,7 @@ export const np: ChartFamily = {
     return { location: samples.map((s) => expectKind(s, 'proportion').defectives) };
   },
   fromData(samples, basis) {
-    const obs = pick(samples, basis).map((s) => expectKind(s, 'proportion'));
-    const pBar = sum(obs.map((o) => o.defectives)) / sum(obs.map((o) => o.inspected));
+    const pBar = pooledFraction(samples, basis);
     return { location: limitsAt(samples, pBar), estimate: { pBar } };
   },
   fromStandard(samples, standard: Standard) {

@@ -15,14 +15,19 @@ export const p: ChartFamily = {
     return { location: samples.map((s) => { const o = expectKind(s, 'proportion'); return o.defectives / o.inspected; }) };
   },
   fromData(samples, basis) {
-    const obs = pick(samples, basis).map((s) => expectKind(s, 'proportion'));
-    const pBar = sum(obs.map((o) => o.defectives)) / sum(obs.map((o) => o.inspected));
+    const pBar = pooledFraction(samples, basis);
     return { location: limitsAt(samples, pBar), estimate: { pBar } };
   },
   fromStandard(samples, standard: Standard) {
     return { location: limitsAt(samples, standard.center), estimate: { pBar: standard.center } };
   },
 };
+
+/** p̄ = Σd / Σn over the basis: every inspected unit weighs the same (shared with the np chart). */
+export function pooledFraction(samples: readonly Sample[], basis: readonly number[]): number {
+  const obs = pick(samples, basis).map((s) => expectKind(s, 'proportion'));
+  return sum(obs.map((o) => o.defectives)) / sum(obs.map((o) => o.inspected));
+}
 
 function limitsAt(samples: readonly Sample[], pBar: number) {
   return samples.map((s) => {
