@@ -31,6 +31,18 @@ export function readDataFile(text: string, ch: Characteristic): { samples: Sampl
   return { samples, diagnostics };
 }
 
+/** One valid data row, before rows are grouped into points. */
+interface Row {
+  readonly line: number;
+  readonly label: string;
+  readonly date: string;
+  readonly observation: Observation;
+}
+
+function measured(r: Row): readonly number[] {
+  return r.observation.kind === 'measurements' ? r.observation.values : [];
+}
+
 function rowsToSamples(table: CsvTable, ch: Characteristic, diagnostics: Diagnostic[]): Sample[] {
   const file = ch.data;
   const where = (line: number, column?: number) => ({ file, line, column, characteristic: ch.id });
@@ -63,7 +75,7 @@ function rowsToSamples(table: CsvTable, ch: Characteristic, diagnostics: Diagnos
 
   const cell = (cells: readonly string[], name: string) => (col.has(name) ? cells[col.get(name)!]! : '');
   const at = (cells: readonly string[], name: string) => columnOf(cells, col.get(name)!);
-  const rows: { line: number; label: string; date: string; observation: Observation | number }[] = [];
+  const rows: Row[] = [];
   let lastDate = '';
   let lastDateLine = 0;
   for (const r of table.rows) {
@@ -98,11 +110,13 @@ function rowsToSamples(table: CsvTable, ch: Characteristic, diagnostics: Diagnos
       return parsed.value;
     };
     const wholeCount = (v: number) => (v < 0 ? `is ${v}; a count cannot be negative` : Number.isInteger(v) ? null : `is ${v}; a count must be a whole number`);
-    let observation: Observation | number | undefined;
+    let observation: Observation | undefined;
     switch (kind) {
-      case 'measurements':
-        observation = num('value');
+      case 'measurements': {
+        const value = num('value');
+        if (value !== undefined) observation = { kind, values: [value] };
         break;
+      }
       case 'count': {
         const count = num('count', wholeCount);
         if (count !== undefined) observation = { kind, count };
@@ -133,11 +147,10 @@ function rowsToSamples(table: CsvTable, ch: Characteristic, diagnostics: Diagnos
     const label = cell(r.cells, 'label') || date;
     if (ok && observation !== undefined) rows.push({ line: r.line, label, date, observation });
   }
-  if (kind === 'measurements') return groupMeasurements(rows as { line: number; label: string; date: string; observation: number }[], ch, diagnostics);
-  return uniquePoints(rows as { line: number; label: string; date: string; observation: Observation }[], ch, diagnostics);
+  return kind === 'measurements' && ch.chart !== 'individuals' ? groupSubgroups(rows, ch, diagnostics) : uniquePoints(rows, ch, diagnostics);
 }
 
-function uniquePoints(rows: { line: number; label: string; date: string; observation: Observation }[], ch: Characteristic, diagnostics: Diagnostic[]): Sample[] {
+function uniquePoints(rows: readonly Row[], ch: Characteristic, diagnostics: Diagnostic[]): Sample[] {
   const seen = new Map<string, number>();
   const out: Sample[] = [];
   for (const r of rows) {
@@ -154,11 +167,9 @@ function uniquePoints(rows: { line: number; label: string; date: string; observa
   return out;
 }
 
-function groupMeasurements(rows: { line: number; label: string; date: string; observation: number }[], ch: Characteristic, diagnostics: Diagnostic[]): Sample[] {
+/** Consecutive rows with the same label (or date) form one subgroup. */
+function groupSubgroups(rows: readonly Row[], ch: Characteristic, diagnostics: Diagnostic[]): Sample[] {
   const where = (line: number) => ({ file: ch.data, line, characteristic: ch.id });
-  if (ch.chart === 'individuals') {
-    return uniquePoints(rows.map((r) => ({ ...r, observation: { kind: 'measurements', values: [r.observation] } })), ch, diagnostics);
-  }
   const out: Sample[] = [];
   const closed = new Map<string, number>();
   let current: { label: string; date: string; line: number; values: number[] } | undefined;
@@ -176,7 +187,7 @@ function groupMeasurements(rows: { line: number; label: string; date: string; ob
   };
   for (const r of rows) {
     if (current && r.label === current.label) {
-      current.values.push(r.observation);
+      current.values.push(...measured(r));
       continue;
     }
     close();
@@ -188,7 +199,7 @@ function groupMeasurements(rows: { line: number; label: string; date: string; ob
       current = undefined;
       continue;
     }
-    current = { label: r.label, date: r.date, line: r.line, values: [r.observation] };
+    current = { label: r.label, date: r.date, line: r.line, values: [...measured(r)] };
   }
   close();
   return out;
