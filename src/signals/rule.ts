@@ -30,6 +30,8 @@ export interface Rule {
   readonly id: string;
   /** What the rule looks for, as a sentence for the pack. */
   readonly description: string;
+  /** A few words for chart legends, e.g. "beyond limits". */
+  readonly short: string;
   /** Zone rules assume near-normal symmetric data and are off by default on attribute charts. */
   readonly group: RuleGroup;
   detect(points: readonly RulePoint[]): RuleHit[];

@@ -6,6 +6,7 @@ const POINTS = 14;
 export const alternating14: Rule = {
   id: 'alternating-14',
   description: `${POINTS} points in a row alternating up and down.`,
+  short: `${POINTS} alternating`,
   group: 'run',
   detect(points) {
     const hits: RuleHit[] = [];

@@ -3,6 +3,7 @@ import type { Rule, RuleHit } from '../rule.ts';
 export const beyondLimits: Rule = {
   id: 'beyond-limits',
   description: 'One point beyond a control limit (more than 3 sigma from the center line).',
+  short: 'beyond a limit',
   group: 'limits',
   detect(points) {
     const hits: RuleHit[] = [];

@@ -10,6 +10,7 @@ function kOfM(id: string, k: number, m: number, threshold: number, description: 
   return {
     id,
     description,
+    short: `${k} of ${m} beyond ${threshold}σ`,
     group: 'zone',
     detect(points) {
       const hits: RuleHit[] = [];

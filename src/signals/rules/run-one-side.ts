@@ -6,6 +6,7 @@ function runOneSide(n: number): Rule {
   return {
     id: `run-${n}-one-side`,
     description: `${n} successive points on the same side of the center line.`,
+    short: `${n} on one side`,
     group: 'run',
     detect(points) {
       const hits: RuleHit[] = [];

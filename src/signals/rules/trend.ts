@@ -6,6 +6,7 @@ const POINTS = 6;
 export const trend6: Rule = {
   id: 'trend-6',
   description: `${POINTS} points in a row steadily increasing or steadily decreasing.`,
+  short: `${POINTS} trending`,
   group: 'run',
   detect(points) {
     const hits: RuleHit[] = [];

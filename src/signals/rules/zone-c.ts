@@ -8,6 +8,7 @@ import type { Rule, RuleHit } from '../rule.ts';
 export const stratification15: Rule = {
   id: 'stratification-15-within-1-sigma',
   description: '15 points in a row within 1 sigma of the center line, on either side.',
+  short: '15 within 1σ',
   group: 'zone',
   detect(points) {
     const hits: RuleHit[] = [];
@@ -23,6 +24,7 @@ export const stratification15: Rule = {
 export const mixture8: Rule = {
   id: 'mixture-8-beyond-1-sigma',
   description: '8 points in a row more than 1 sigma from the center line, with points on both sides.',
+  short: '8 outside 1σ',
   group: 'zone',
   detect(points) {
     const hits: RuleHit[] = [];
