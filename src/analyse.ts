@@ -95,6 +95,9 @@ export function analyse(input: AnalyseInput): Assessment {
   }
 
   const explained = (i: number) => replay.state.excluded.has(i) || replay.state.reviewed.has(i);
+  // A moving range spans a point and the one before it, so a cause found for
+  // either explains it; ranges and SDs of subgroups belong to their own point.
+  const dispersionExplained = ch.chart === 'individuals' ? (i: number) => explained(i) || (i > 0 && explained(i - 1)) : explained;
   const panelKind = fam.standardKind === 'variables' ? 'variables' : 'attributes';
   const locSignals = evaluatePanel('location', { values: locValues, limits: locLimits }, baselines, rulesFor(config.rules, panelKind), explained);
   const location: PanelResult = { values: locValues, limits: locLimits, signals: locSignals };
@@ -102,7 +105,7 @@ export function analyse(input: AnalyseInput): Assessment {
     ? {
         values: dispValues,
         limits: dispLimits,
-        signals: evaluatePanel('dispersion', { values: dispValues, limits: dispLimits }, baselines, rulesFor(config.rules, 'dispersion'), explained),
+        signals: evaluatePanel('dispersion', { values: dispValues, limits: dispLimits }, baselines, rulesFor(config.rules, 'dispersion'), dispersionExplained),
       }
     : undefined;
 
