@@ -1,15 +1,24 @@
 /**
  * From a loaded workspace to the planned pack: every output file with its
- * bytes, decided before anything is written.
+ * bytes, decided before anything is written (the pack writer writes them).
  */
-import { createHash } from 'node:crypto';
-import { type Assessment, analyse } from './analyse.ts';
-import { type Diagnostic, hasErrors } from './diagnostics.ts';
+import type { Assessment } from './analyse.ts';
+import { planSummary, sha256 } from './assess.ts';
+import type { Diagnostic } from './diagnostics.ts';
 import type { IsoDate } from './model.ts';
-import { buildSummary } from './summary.ts';
+import { buildPackTree } from './pack/content.ts';
+import { toHtml } from './pack/html.ts';
+import { toMarkdown } from './pack/markdown.ts';
+import { type Paper, toPdf } from './pack/pdf.ts';
+import { loadFonts } from './render/fonts.ts';
+import { svgToPng } from './render/png.ts';
+import { layoutChart } from './render/scene/layout.ts';
+import { chartSpec } from './render/scene/spec.ts';
+import { createTextMetrics } from './render/scene/text-metrics.ts';
+import type { Scene } from './render/scene/types.ts';
+import { renderStandaloneSvg } from './render/svg-satori.ts';
 import { TOOL } from './version.ts';
 import type { Workspace } from './workspace/load.ts';
-import { LEDGER_FILE } from './workspace/ledger-file.ts';
 
 export interface PlannedPack {
   /** Output path (relative to --out) → contents, in write order. */
@@ -20,45 +29,76 @@ export interface PlannedPack {
   readonly exitCode: 0 | 1;
 }
 
-export function assessAll(ws: Workspace, asOf: IsoDate): Assessment[] {
-  return ws.characteristics.map((c) =>
-    analyse({
-      config: ws.config,
-      characteristic: c.characteristic,
-      samples: c.samples,
-      laterLabels: c.laterLabels,
-      ledger: c.ledger,
-      ledgerFile: LEDGER_FILE,
-      diagnostics: c.diagnostics,
-      asOf,
-    }),
-  );
+export interface PackOptions {
+  readonly paper: Paper;
+  /** Also write a PNG of every chart (charts/<id>.png), at twice the scene's size. */
+  readonly png: boolean;
+  /** Called as each stage finishes, for progress on long builds. */
+  readonly progress?: (stage: string, done: number, total: number) => void;
 }
 
-export function sha256(bytes: Uint8Array): string {
-  return createHash('sha256').update(bytes).digest('hex');
-}
+export const DEFAULT_OPTIONS: PackOptions = { paper: 'a4', png: false };
 
 const encoder = new TextEncoder();
 const json = (value: unknown) => encoder.encode(`${JSON.stringify(value, null, 2)}\n`);
+const byPath = ([a]: [string, unknown], [b]: [string, unknown]) => (a < b ? -1 : a > b ? 1 : 0);
 
-export function planPack(ws: Workspace, asOf: IsoDate): PlannedPack {
-  const assessments = assessAll(ws, asOf);
-  const summary = buildSummary(ws.config, assessments, ws.diagnostics, asOf);
-  const files = new Map<string, Uint8Array>([['summary.json', json(summary)]]);
-  const entries = (m: ReadonlyMap<string, Uint8Array>) =>
-    [...m.entries()].sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0)).map(([p, b]) => ({ path: p, bytes: b.length, sha256: sha256(b) }));
+function entries(m: ReadonlyMap<string, Uint8Array>) {
+  return [...m.entries()].sort(byPath).map(([p, b]) => ({ path: p, bytes: b.length, sha256: sha256(b) }));
+}
+
+export const chartFile = (id: string) => `charts/${id}.svg`;
+
+export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOptions = DEFAULT_OPTIONS): Promise<PlannedPack> {
+  const { assessments, summary, diagnostics, exitCode } = planSummary(ws, asOf);
   const inputs = entries(ws.inputs);
-  const manifest = {
-    tool: TOOL,
+  // One hash over the input hashes: the pack's fingerprint of what it was built from.
+  const fingerprint = sha256(encoder.encode(inputs.map((i) => `${i.sha256}  ${i.path}`).join('\n')));
+  const fonts = loadFonts();
+  const metrics = createTextMetrics(fonts);
+  const files = new Map<string, Uint8Array>();
+
+  const scenes = new Map<string, Scene>();
+  const assessed = assessments.filter((a) => a.status === 'assessed');
+  for (const [k, a] of assessed.entries()) {
+    const scene = layoutChart(chartSpec(a, ws.config.period), metrics);
+    scenes.set(a.characteristic.id, scene);
+    const svg = await renderStandaloneSvg(scene, fonts);
+    files.set(chartFile(a.characteristic.id), encoder.encode(svg));
+    if (options.png) files.set(`charts/${a.characteristic.id}.png`, svgToPng(svg, [fonts.regularPath, fonts.semiboldPath], scene.width * 2));
+    options.progress?.('charts', k + 1, assessed.length);
+  }
+
+  const pack = buildPackTree({
+    config: ws.config,
+    assessments,
+    diagnostics: ws.diagnostics,
     asOf,
-    // One hash over the input hashes: the pack's fingerprint of what it was built from.
-    fingerprint: sha256(encoder.encode(inputs.map((i) => `${i.sha256}  ${i.path}`).join('\n'))),
-    inputs,
-    outputs: entries(files),
-  };
-  files.set('manifest.json', json(manifest));
-  const diagnostics = [...ws.diagnostics, ...assessments.flatMap((a) => a.diagnostics)];
-  const failed = assessments.some((a) => a.status !== 'assessed') || hasErrors(ws.diagnostics);
-  return { files, assessments, diagnostics, exitCode: failed ? 1 : 0 };
+    fingerprint,
+    tool: TOOL,
+    templates: ws.templates,
+    chartFile,
+  });
+  const packDiagnostics = [...diagnostics, ...pack.diagnostics];
+  files.set('index.md', encoder.encode(toMarkdown(pack.tree)));
+  files.set('index.html', encoder.encode(toHtml({ tree: pack.tree, title: ws.config.title, scenes, fonts })));
+  options.progress?.('pages', 1, 2);
+  files.set(
+    'pack.pdf',
+    await toPdf({
+      tree: pack.tree,
+      title: ws.config.title,
+      subject: `Control-limit review, ${ws.config.period.from} to ${ws.config.period.to}`,
+      author: ws.config.organisation,
+      asOf,
+      paper: options.paper,
+      scenes,
+      fonts,
+      producer: `${TOOL.name} ${TOOL.version}`,
+    }),
+  );
+  options.progress?.('pages', 2, 2);
+  files.set('summary.json', json(summary));
+  files.set('manifest.json', json({ tool: TOOL, asOf, fingerprint, inputs, outputs: entries(files) }));
+  return { files, assessments, diagnostics: packDiagnostics, exitCode };
 }

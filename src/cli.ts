@@ -4,7 +4,7 @@
  * 2 bad input or usage, nothing written; 70 a fault in plumbline itself.
  */
 import { parseArgs } from 'node:util';
-import { planPack } from './build.ts';
+import { planSummary } from './assess.ts';
 import { type Diagnostic, formatDiagnostic, hasErrors, sortDiagnostics } from './diagnostics.ts';
 import { OutputRefused, checkOutDir, writePack } from './pack/write.ts';
 import { TOOL } from './version.ts';
@@ -16,9 +16,15 @@ export const EXIT = { ok: 0, notAssessed: 1, usage: 2, internal: 70 } as const;
 export interface Io {
   out(line: string): void;
   err(line: string): void;
+  /** Transient progress on a terminal; absent when stderr is not one. */
+  progress?(line: string): void;
 }
 
-const consoleIo: Io = { out: (l) => process.stdout.write(`${l}\n`), err: (l) => process.stderr.write(`${l}\n`) };
+const consoleIo: Io = {
+  out: (l) => process.stdout.write(`${l}\n`),
+  err: (l) => process.stderr.write(`${l}\n`),
+  ...(process.stderr.isTTY ? { progress: (l: string) => process.stderr.write(l ? `\r\u001b[2K${l}` : '\r\u001b[2K') } : {}),
+};
 
 const HELP: Record<string, string> = {
   main: `plumbline ${TOOL.version} — control-limit decisions and review packs from plain files
@@ -43,16 +49,19 @@ Options:
   -h, --help    show this help
 
 Exit status: 0 no errors, 1 a characteristic has errors, 2 review.yaml is unusable.`,
-  build: `Usage: plumbline build <workspace> --out <dir> [--date YYYY-MM-DD] [--quiet]
+  build: `Usage: plumbline build <workspace> --out <dir> [--date YYYY-MM-DD] [--paper a4|letter] [--png] [--quiet]
 
 Assesses every characteristic (limits, signals, a recommendation) and writes
-summary.json and manifest.json to <dir>. The folder is replaced whole, and
-only once everything is ready.
+the review pack to <dir>: index.md with charts/*.svg, index.html, pack.pdf,
+summary.json and manifest.json. The folder is replaced whole, and only once
+everything is ready.
 
 Options:
-  -o, --out <dir>    where the pack goes (required; a new or earlier pack folder)
-  -d, --date <date>  the as-of date written on proposed ledger lines (default: the period's end)
-  -q, --quiet        print errors and the one-line result only
+  -o, --out <dir>       where the pack goes (required; a new or earlier pack folder)
+  -d, --date <date>     the build date: written on proposed ledger lines and in the PDF (default: the period's end)
+      --paper <size>    PDF paper size, a4 (default) or letter
+      --png             also write charts/*.png (twice the chart size, for slides and e-mail)
+  -q, --quiet           print errors and the one-line result only
   -h, --help         show this help
 
 Exit status: 0 built, 1 built but a characteristic could not be assessed,
@@ -116,7 +125,7 @@ function check(args: string[], io: Io): number {
     io.err('review.yaml has problems; nothing else was checked.');
     return EXIT.usage;
   }
-  const plan = planPack(loaded.workspace, loaded.workspace.config.period.to);
+  const plan = planSummary(loaded.workspace, loaded.workspace.config.period.to);
   printDiagnostics(io, plan.diagnostics, values.quiet === true);
   const bad = plan.assessments.filter((a) => a.status !== 'assessed').map((a) => a.characteristic.id);
   const errors = plan.diagnostics.filter((d) => d.severity === 'error').length;
@@ -128,16 +137,20 @@ function check(args: string[], io: Io): number {
   return plan.exitCode === 0 && !hasErrors(plan.diagnostics) ? EXIT.ok : EXIT.notAssessed;
 }
 
-function build(args: string[], io: Io): number {
+async function build(args: string[], io: Io): Promise<number> {
   const { values, positionals } = parse(args, {
     out: { type: 'string', short: 'o' },
     date: { type: 'string', short: 'd' },
+    paper: { type: 'string' },
+    png: { type: 'boolean' },
     quiet: { type: 'boolean', short: 'q' },
   });
   if (values.help) return io.out(HELP.build!), EXIT.ok;
   const dir = workspaceArg(positionals, 'build');
   if (typeof values.out !== 'string' || values.out === '') throw new UsageError('build needs --out <dir>, the folder the pack is written to');
   if (typeof values.date === 'string' && !isIsoDate(values.date)) throw new UsageError(`--date ${values.date} is not a date written YYYY-MM-DD`);
+  const paper = values.paper ?? 'a4';
+  if (paper !== 'a4' && paper !== 'letter') throw new UsageError(`--paper ${String(paper)} is not a paper size this build knows; use a4 or letter`);
   const outDir = values.out;
   const asOf = typeof values.date === 'string' ? values.date : undefined;
   const loaded = loadWorkspace(dir);
@@ -148,8 +161,17 @@ function build(args: string[], io: Io): number {
   }
   const ws = loaded.workspace;
   checkOutDir(outDir, ws.root, [...ws.inputs.keys()]);
-  const plan = planPack(ws, asOf ?? ws.config.period.to);
-  printDiagnostics(io, plan.diagnostics, values.quiet === true);
+  const quiet = values.quiet === true;
+  const progress = quiet || !io.progress ? undefined : io.progress.bind(io);
+  // The renderers are loaded only when a pack is built.
+  const { planPack } = await import('./build.ts');
+  const plan = await planPack(ws, asOf ?? ws.config.period.to, {
+    paper,
+    png: values.png === true,
+    ...(progress ? { progress: (stage: string, done: number, total: number) => progress(`${stage} ${done}/${total}`) } : {}),
+  });
+  progress?.('');
+  printDiagnostics(io, plan.diagnostics, quiet);
   writePack(outDir, plan.files);
   const counts = new Map<string, number>();
   for (const a of plan.assessments) {
@@ -162,7 +184,7 @@ function build(args: string[], io: Io): number {
   return plan.exitCode;
 }
 
-export function main(argv: readonly string[], io: Io = consoleIo): number {
+export async function main(argv: readonly string[], io: Io = consoleIo): Promise<number> {
   const [command, ...rest] = argv;
   try {
     if (command === undefined || command === '-h' || command === '--help' || command === 'help') {
@@ -172,7 +194,7 @@ export function main(argv: readonly string[], io: Io = consoleIo): number {
     }
     if (command === '-v' || command === '--version') return io.out(TOOL.version), EXIT.ok;
     if (command === 'check') return check(rest, io);
-    if (command === 'build') return build(rest, io);
+    if (command === 'build') return await build(rest, io);
     const hint = closest(command, COMMANDS);
     throw new UsageError(`unknown command "${command}"${hint ? `; did you mean "${hint}"?` : ''} (commands: check, build)`);
   } catch (e) {

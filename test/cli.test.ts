@@ -40,21 +40,24 @@ describe('plumbline CLI', () => {
     expect(help.out).toMatch(/plumbline build <workspace> --out <dir>/);
     expect(cli('build', '--help').out).toMatch(/--date/);
   });
-  it('build writes summary.json and manifest.json, exits 0, and leaves the inputs as they were', () => {
+  it('build writes the whole pack, exits 0, and leaves the inputs as they were', () => {
     const before = hashTree(FIXTURE);
     const out = path.join(temp, 'pack');
     const r = cli('build', FIXTURE, '--out', out);
     expect(r.code).toBe(0);
     expect(r.out).toMatch(/Built 10 characteristics/);
-    expect(readdirSync(out).sort()).toEqual(['manifest.json', 'summary.json']);
+    expect(readdirSync(out).sort()).toEqual(['charts', 'index.html', 'index.md', 'manifest.json', 'pack.pdf', 'summary.json']);
     expect(hashTree(FIXTURE)).toEqual(before);
   });
-  it('building twice gives byte-identical summary.json and manifest.json', () => {
+  it('building twice gives byte-identical files: pack.pdf, index.html, index.md, charts, summary.json, manifest.json', () => {
     const a = path.join(temp, 'twice-a');
     const b = path.join(temp, 'twice-b');
-    cli('build', FIXTURE, '--out', a);
-    cli('build', FIXTURE, '--out', b);
-    for (const f of ['summary.json', 'manifest.json']) expect(readFileSync(path.join(a, f))).toEqual(readFileSync(path.join(b, f)));
+    expect(cli('build', FIXTURE, '--out', a).code).toBe(0);
+    expect(cli('build', FIXTURE, '--out', b).code).toBe(0);
+    const ha = hashTree(a);
+    const hb = hashTree(b);
+    expect(Object.keys(ha)).toEqual(expect.arrayContaining(['pack.pdf', 'index.html', 'index.md', 'summary.json', 'manifest.json', 'charts/fill-trial.svg']));
+    expect(ha).toEqual(hb);
   });
   it('a characteristic with bad data: exit 1, the rest still built, the problem printed as file:line', () => {
     const ws = path.join(temp, 'bad-data');

@@ -11,6 +11,8 @@ import type { Characteristic, LedgerEntry, ReviewConfig, Sample } from '../model
 import { readDataFile } from './data-file.ts';
 import { LEDGER_FILE, readLedger } from './ledger-file.ts';
 import { REVIEW_FILE, dataFieldLine, readReview } from './review-file.ts';
+import type { Templates } from '../pack/template.ts';
+import { readTemplates } from './templates.ts';
 
 export interface CharacteristicInput {
   readonly characteristic: Characteristic;
@@ -29,6 +31,8 @@ export interface Workspace {
   readonly diagnostics: readonly Diagnostic[];
   /** Every input file read, relative path → bytes, for the manifest's fingerprints. */
   readonly inputs: ReadonlyMap<string, Uint8Array>;
+  /** Pack templates, the workspace's own where it has them. */
+  readonly templates: Templates;
 }
 
 export type LoadResult =
@@ -124,5 +128,7 @@ export function loadWorkspace(dir: string): LoadResult {
     return { characteristic: c, samples: inside, laterLabels: new Set(later.map((s) => s.label)), ledger: entries, diagnostics: own };
   });
 
-  return { ok: true, workspace: { root, config, characteristics, diagnostics: global, inputs } };
+  const templates = readTemplates(root);
+  for (const [file, bytes] of templates.inputs) inputs.set(file, bytes);
+  return { ok: true, workspace: { root, config, characteristics, diagnostics: global, inputs, templates: templates.templates } };
 }

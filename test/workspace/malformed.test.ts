@@ -8,7 +8,7 @@ import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { planPack } from '../../src/build.ts';
+import { planSummary } from '../../src/assess.ts';
 import type { Diagnostic } from '../../src/diagnostics.ts';
 import { loadWorkspace } from '../../src/workspace/load.ts';
 
@@ -43,7 +43,7 @@ function run(files: Record<string, string>) {
   }
   const loaded = loadWorkspace(root);
   if (!loaded.ok) return { stopped: true, diagnostics: loaded.diagnostics, assessed: [] as string[] };
-  const plan = planPack(loaded.workspace, '2026-12-31');
+  const plan = planSummary(loaded.workspace, '2026-12-31');
   return {
     stopped: false,
     diagnostics: plan.diagnostics,

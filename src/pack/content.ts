@@ -1,0 +1,384 @@
+/**
+ * The review pack as one mdast tree, from the assessments and the templates.
+ * Markdown and HTML are serialisations of this tree and the PDF is laid out
+ * from it, so all three carry the same content in the same order. Pure.
+ */
+import type { BlockContent, Heading, Root, RootContent } from 'mdast';
+import type { Assessed, Assessment } from '../analyse.ts';
+import { type Diagnostic, formatDiagnostic, sortDiagnostics } from '../diagnostics.ts';
+import { fmt } from '../format.ts';
+import type { IsoDate, ReviewConfig } from '../model.ts';
+import { labelDecimals } from '../render/scene/spec.ts';
+import { RULES, RULE_SETS, rule } from '../signals/rule-sets.ts';
+import type { Signal } from '../signals/evaluate.ts';
+import { constants } from '../stats/constants.ts';
+import type { Limits } from '../stats/family.ts';
+import { family } from '../stats/index.ts';
+import { type Inline, chartImage, code, heading, link, list, paragraph, plain, slug, strong, table } from './mdast.ts';
+import { type Templates, fillTemplate } from './template.ts';
+
+export interface PackInput {
+  readonly config: ReviewConfig;
+  readonly assessments: readonly Assessment[];
+  /** Problems that belong to no one characteristic. */
+  readonly diagnostics: readonly Diagnostic[];
+  readonly asOf: IsoDate;
+  readonly fingerprint: string;
+  readonly tool: { readonly name: string; readonly version: string };
+  readonly templates: Templates;
+  /** File name of each characteristic's chart, relative to the pack. */
+  readonly chartFile: (id: string) => string;
+}
+
+export const sectionId = (characteristicId: string) => `c-${characteristicId}`;
+
+const ACTION_WORDS = {
+  keep: 'keep the limits',
+  freeze: 'freeze the trial limits',
+  're-baseline': 're-baseline',
+  investigate: 'investigate',
+} as const;
+
+/** The action in words; "keep" while a baseline is still collecting means keep collecting. */
+function actionWords(a: Assessed): string {
+  const b = a.baselines[a.baselines.length - 1]!;
+  return a.recommendation.action === 'keep' && !b.limits ? 'keep collecting points' : ACTION_WORDS[a.recommendation.action];
+}
+
+const ESTIMATE_WORDS: Readonly<Record<string, string>> = {
+  mean: 'mean',
+  grandMean: 'grand mean',
+  mrBar: 'mean moving range',
+  rBar: 'mean range',
+  sBar: 'mean standard deviation',
+  sigma: 'sigma',
+  pBar: 'mean fraction nonconforming',
+  cBar: 'mean count',
+  uBar: 'mean count per unit',
+};
+
+/** Safety-related or incident-count characteristics bring the cautions section (DESIGN.md, "Cautions"). */
+export function needsCautions(a: Assessment): boolean {
+  const c = a.characteristic;
+  return c.safety || c.tags.some((t) => t === 'incident' || t === 'incidents');
+}
+
+const plural = (n: number, word: string, many = `${word}s`) => `${n} ${n === 1 ? word : many}`;
+
+function limitStatus(a: Assessment): string {
+  if (a.status !== 'assessed') return 'cannot be assessed';
+  const b = a.baselines[a.baselines.length - 1]!;
+  if (b.source === 'standard') return 'standard values';
+  if (!b.limits) return 'collecting';
+  return b.status;
+}
+
+function periodIndices(a: Assessed, config: ReviewConfig): number[] {
+  return a.samples.map((s, i) => (s.date >= config.period.from && s.date <= config.period.to ? i : -1)).filter((i) => i >= 0);
+}
+
+function signalsInPeriod(a: Assessed, inPeriod: ReadonlySet<number>): Signal[] {
+  return [...a.location.signals, ...(a.dispersion?.signals ?? [])].filter((s) => s.flagged.some((i) => inPeriod.has(i)));
+}
+
+function range(values: readonly number[], decimals: number): string {
+  const lo = Math.min(...values);
+  const hi = Math.max(...values);
+  return hi - lo < 10 ** -decimals / 2 ? fmt(lo, decimals) : `${fmt(lo, decimals)} to ${fmt(hi, decimals)}`;
+}
+
+function limitsRows(a: Assessed): (readonly Inline[] | string)[][] {
+  const label = (i: number) => a.samples[i]!.label;
+  const rows: (readonly Inline[] | string)[][] = [];
+  const panels: { name: string; limits: readonly (Limits | null)[]; values: readonly (number | null)[] }[] = [
+    { name: family(a.characteristic.chart).statisticLabel, limits: a.location.limits, values: a.location.values },
+    ...(a.dispersion ? [{ name: family(a.characteristic.chart).dispersionLabel!.toLowerCase(), limits: a.dispersion.limits, values: a.dispersion.values }] : []),
+  ];
+  a.baselines.forEach((b, k) => {
+    const span = b.end > b.start ? `${label(b.start)} – ${label(b.end - 1)}` : '–';
+    const status = b.source === 'standard' ? 'standard values' : b.limits ? b.status : 'collecting';
+    const basis =
+      b.source === 'standard'
+        ? 'review.yaml standard values'
+        : b.basis.length
+          ? `${plural(b.basis.length, 'point')}, ${label(b.basis[0]!)} – ${label(b.basis[b.basis.length - 1]!)}${b.frozenBy ? ` (frozen at ${b.frozenBy.point})` : ''}`
+          : 'no usable points yet';
+    for (const p of panels) {
+      const ls = p.limits.slice(b.start, b.end).filter((l): l is Limits => l !== null);
+      const d = labelDecimals(p.values, p.limits);
+      rows.push([
+        String(k + 1),
+        span,
+        p.name,
+        status,
+        basis,
+        ls.length ? range(ls.map((l) => l.center), d) : '–',
+        ls.length ? range(ls.map((l) => l.lcl), d) : '–',
+        ls.length ? range(ls.map((l) => l.ucl), d) : '–',
+      ]);
+    }
+  });
+  return rows;
+}
+
+function estimatesText(a: Assessed): BlockContent[] {
+  const parts = a.baselines.flatMap((b, k) => {
+    if (!b.limits) return [];
+    const est = Object.entries(b.limits.estimate)
+      .sort(([x], [y]) => (x < y ? -1 : x > y ? 1 : 0))
+      .map(([key, v]) => `${ESTIMATE_WORDS[key] ?? key} ${fmt(v, Math.abs(v) < 1 ? 5 : 4)}`);
+    return [`baseline ${k + 1}: ${est.join(', ')}`];
+  });
+  return parts.length ? [paragraph('Estimates behind the limits — ', parts.join('; '), '.')] : [];
+}
+
+function signalRows(a: Assessed, inPeriod: ReadonlySet<number>): (readonly Inline[] | string)[][] {
+  // A point is named by its label, with its date where the label is something else (a lot or batch id).
+  const name = (i: number) => (a.samples[i]!.label === a.samples[i]!.date ? a.samples[i]!.label : `${a.samples[i]!.label} (${a.samples[i]!.date})`);
+  return [...a.location.signals, ...(a.dispersion?.signals ?? [])]
+    .slice()
+    .sort((x, y) => x.flagged[0]! - y.flagged[0]! || (x.rule < y.rule ? -1 : 1))
+    .map((s) => {
+      const first = s.points[0]!;
+      const lastFlag = s.flagged[s.flagged.length - 1]!;
+      return [
+        rule(s.rule)?.description ?? s.rule,
+        s.panel === 'location' ? family(a.characteristic.chart).statisticLabel : family(a.characteristic.chart).dispersionLabel!.toLowerCase(),
+        first === lastFlag ? name(first) : `${name(first)} – ${name(lastFlag)}, ${plural(s.flagged.length, 'point')} flagged`,
+        s.side ?? '–',
+        s.persistence,
+        s.explained ? 'yes' : 'no',
+        s.flagged.some((i) => inPeriod.has(i)) ? 'yes' : 'no',
+      ];
+    });
+}
+
+function characteristicBlocks(a: Assessment, input: PackInput, diagnostics: Diagnostic[]): RootContent[] {
+  const c = a.characteristic;
+  const fam = family(c.chart);
+  const facts: string[] = [
+    `${fam.label} chart`,
+    c.unit ? `unit ${c.unit}` : '',
+    c.better === 'target' ? 'on target is better' : `${c.better} is better`,
+    c.spec ? `specification ${[c.spec.lower !== undefined ? `lower ${c.spec.lower}` : '', c.spec.target !== undefined ? `target ${c.spec.target}` : '', c.spec.upper !== undefined ? `upper ${c.spec.upper}` : ''].filter(Boolean).join(', ')} (not a control limit)` : '',
+    c.safety ? 'safety-related: see Cautions' : '',
+    c.tags.length ? `tags: ${c.tags.join(', ')}` : '',
+    `data ${c.data}`,
+  ].filter(Boolean);
+  const history = a.status === 'assessed' ? a.ledger.history : a.history;
+  const historyBlock: RootContent[] = history.length
+    ? [table(['Date', 'Action', 'Point', 'Reason', 'By', 'Line'], history.map((e) => [e.date, e.action, e.point || '–', e.reason || '–', e.by || '–', String(e.line)]))]
+    : [paragraph('No ledger entries yet.')];
+  const issues: RootContent[] = a.diagnostics.length
+    ? [heading(3, undefined, 'Data issues'), list(sortDiagnostics(a.diagnostics).map((d) => [formatDiagnostic(d)]))]
+    : [];
+
+  let blocks: Record<string, readonly RootContent[]>;
+  let strings: Record<string, string>;
+  if (a.status !== 'assessed') {
+    blocks = {
+      chart: [paragraph(strong('This characteristic could not be assessed'), ': the problems below must be fixed first.')],
+      about: [paragraph(facts.join(' · '))],
+      reasons: [list(sortDiagnostics(a.diagnostics).filter((d) => d.severity === 'error').map((d) => [formatDiagnostic(d)]))],
+      'ledger-lines': [],
+      limits: [paragraph('None: not assessed.')],
+      estimates: [],
+      signals: [paragraph('None: not assessed.')],
+      exclusions: [paragraph('None: not assessed.')],
+      history: historyBlock,
+      issues,
+    };
+    strings = { name: c.name, id: c.id, action: 'cannot be assessed' };
+  } else {
+    const inPeriod = new Set(periodIndices(a, input.config));
+    const excluded = [...a.ledger.excluded.entries()].sort(([x], [y]) => x - y);
+    const sigRows = signalRows(a, inPeriod);
+    blocks = {
+      chart: [paragraph(chartImage(c.id, `${c.name}: ${fam.label} chart`, input.chartFile(c.id)))],
+      about: [paragraph(facts.join(' · '))],
+      reasons: [list(a.recommendation.reasons.map((r) => [r]))],
+      'ledger-lines': a.recommendation.ledger.length
+        ? [paragraph('Ledger lines to append once the decision is taken:'), code(a.recommendation.ledger.join('\n'), 'csv')]
+        : [],
+      limits: [
+        table(['Baseline', 'Points', 'Panel', 'Status', 'Limits rest on', 'Center', 'LCL', 'UCL'], limitsRows(a), [
+          'right', null, null, null, null, 'right', 'right', 'right',
+        ]),
+      ],
+      estimates: estimatesText(a),
+      signals: sigRows.length
+        ? [table(['Rule', 'Panel', 'Points', 'Side', 'Persistence', 'Explained', 'In period'], sigRows)]
+        : [paragraph('No rule fired on any baseline.')],
+      exclusions: excluded.length
+        ? [
+            table(
+              ['Point', 'Date', 'Value', 'Cause recorded', 'By', 'Ledger line'],
+              excluded.map(([i, e]) => [a.samples[i]!.label, a.samples[i]!.date, fmt(a.location.values[i]!, labelDecimals(a.location.values, a.location.limits)), e.reason, e.by || '–', String(e.line)]),
+            ),
+          ]
+        : [paragraph('No points are excluded.')],
+      history: historyBlock,
+      issues,
+    };
+    strings = { name: c.name, id: c.id, action: actionWords(a) };
+  }
+  const filled = fillTemplate(input.templates.characteristic, { blocks, strings });
+  diagnostics.push(...filled.diagnostics);
+  // The template's first heading names the section; give it the characteristic's stable id.
+  const first = filled.nodes.find((n): n is Heading => n.type === 'heading');
+  if (first) first.data = { hProperties: { id: sectionId(c.id) } };
+  return filled.nodes;
+}
+
+function decisionBlocks(input: PackInput): RootContent[] {
+  const pending = input.assessments.filter((a) => a.status !== 'assessed' || a.recommendation.action !== 'keep');
+  if (pending.length === 0) return [paragraph('No decisions are needed: every characteristic keeps its limits.')];
+  const order = { investigate: 0, 're-baseline': 1, freeze: 2, keep: 3 } as const;
+  const rank = (a: Assessment) => (a.status === 'assessed' ? order[a.recommendation.action] : -1);
+  const sorted = pending.slice().sort((x, y) => rank(x) - rank(y) || (x.characteristic.id < y.characteristic.id ? -1 : 1));
+  return [
+    paragraph(`${plural(pending.length, 'characteristic')} of ${input.assessments.length} need a decision this period.`),
+    ...sorted.flatMap((a): RootContent[] => {
+      const c = a.characteristic;
+      const title = link(`#${sectionId(c.id)}`, c.name);
+      if (a.status !== 'assessed') {
+        return [
+          heading(3, undefined, title, ' — cannot be assessed'),
+          list(sortDiagnostics(a.diagnostics).filter((d) => d.severity === 'error').map((d) => [formatDiagnostic(d)])),
+        ];
+      }
+      return [
+        heading(3, undefined, title, ` — ${actionWords(a)}`),
+        list(a.recommendation.reasons.map((r) => [r])),
+        ...(a.recommendation.ledger.length ? [code(a.recommendation.ledger.join('\n'), 'csv')] : []),
+      ];
+    }),
+    ...(sorted.some((a) => a.status === 'assessed' && a.recommendation.ledger.length)
+      ? [paragraph('Append a line to ledger.csv only once the decision is taken; plumbline never writes to the ledger.')]
+      : []),
+  ];
+}
+
+function overviewBlocks(input: PackInput): RootContent[] {
+  const rows = input.assessments.map((a) => {
+    const c = a.characteristic;
+    const name = [link(`#${sectionId(c.id)}`, c.name)];
+    if (a.status !== 'assessed') return [name, c.chart, limitStatus(a), '–', '–', 'cannot be assessed'];
+    const inPeriod = new Set(periodIndices(a, input.config));
+    const flagged = new Set(signalsInPeriod(a, inPeriod).flatMap((s) => s.flagged.filter((i) => inPeriod.has(i))));
+    return [name, c.chart, limitStatus(a), String(inPeriod.size), flagged.size ? `${plural(flagged.size, 'point')} flagged` : 'none', actionWords(a)];
+  });
+  return [table(['Characteristic', 'Chart', 'Limits', 'Points in period', 'Signals in period', 'Action'], rows, [null, null, null, 'right', null, null])];
+}
+
+function cautionBlocks(input: PackInput, diagnostics: Diagnostic[]): RootContent[] {
+  const flagged = input.assessments.filter(needsCautions);
+  if (flagged.length === 0) return [];
+  const filled = fillTemplate(input.templates.cautions, {
+    blocks: { 'safety-characteristics': [list(flagged.map((a) => [link(`#${sectionId(a.characteristic.id)}`, a.characteristic.name)]))] },
+    strings: {},
+  });
+  diagnostics.push(...filled.diagnostics);
+  return filled.nodes;
+}
+
+function methodBlocks(input: PackInput, diagnostics: Diagnostic[]): RootContent[] {
+  const inUse = new Set(typeof input.config.rules === 'string' ? RULE_SETS[input.config.rules] : input.config.rules);
+  const rules = table(
+    ['Rule id', 'What it looks for', 'Kind', 'In use'],
+    RULES.map((r) => [r.id, r.description, r.group, inUse.has(r.id) ? 'yes' : 'no']),
+  );
+  const sizes = [2, 3, 4, 5, 6, 7, 8, 9, 10];
+  const k = (v: number) => fmt(v, 4);
+  const constTable = table(
+    ['n', 'A2', 'A3', 'd2', 'd3', 'D3', 'D4', 'c4', 'B3', 'B4'],
+    sizes.map((n) => {
+      const c = constants(n);
+      return [String(n), k(c.A2), k(c.A3), k(c.d2), k(c.d3), k(c.D3), k(c.D4), k(c.c4), k(c.B3), k(c.B4)];
+    }),
+    sizes.length ? ['right', 'right', 'right', 'right', 'right', 'right', 'right', 'right', 'right', 'right'] : undefined,
+  );
+  const ruleChoice =
+    typeof input.config.rules === 'string' ? `the ${input.config.rules} set` : `the rules listed in review.yaml (${input.config.rules.join(', ')})`;
+  const filled = fillTemplate(input.templates.method, {
+    blocks: { rules: [rules], constants: [constTable] },
+    strings: { 'rule-set': ruleChoice, 'min-points': String(input.config.minPoints), 'freeze-after': String(input.config.freezeAfter) },
+  });
+  diagnostics.push(...filled.diagnostics);
+  return filled.nodes;
+}
+
+/** Gives every section heading (depth ≤ 2) a unique id and returns the contents list. */
+function assignIds(nodes: RootContent[]): { id: string; title: string }[] {
+  const seen = new Set<string>();
+  const contents: { id: string; title: string }[] = [];
+  for (const n of nodes) {
+    if (n.type !== 'heading' || n.depth > 2) continue;
+    const given = (n.data?.hProperties as { id?: string } | undefined)?.id;
+    let id = given ?? slug(plain(n));
+    for (let k = 2; seen.has(id); k++) id = `${given ?? slug(plain(n))}-${k}`;
+    seen.add(id);
+    n.data = { ...n.data, hProperties: { ...(n.data?.hProperties ?? {}), id } };
+    if (n.depth === 2) contents.push({ id, title: plain(n) });
+  }
+  return contents;
+}
+
+export function buildPackTree(input: PackInput): { tree: Root; diagnostics: Diagnostic[] } {
+  const diagnostics: Diagnostic[] = [];
+  const { config } = input;
+  const globalIssues: RootContent[] = input.diagnostics.length
+    ? [heading(2, 'data-issues', 'Data issues'), list(sortDiagnostics(input.diagnostics).map((d) => [formatDiagnostic(d)]))]
+    : [];
+  const CONTENTS = '\u0000contents';
+  const counts = new Map<string, number>();
+  for (const a of input.assessments) {
+    const key = a.status === 'assessed' ? a.recommendation.action : 'cannot be assessed';
+    counts.set(key, (counts.get(key) ?? 0) + 1);
+  }
+  const actionOrder = ['investigate', 're-baseline', 'freeze', 'keep', 'cannot be assessed'];
+  const cover = table(
+    ['Review', ''],
+    [
+      ['Organisation', config.organisation || '–'],
+      ['Review period', `${config.period.from} to ${config.period.to}`],
+      ['Built for', input.asOf],
+      ['Characteristics', String(input.assessments.length)],
+      ['Recommendations', actionOrder.filter((k) => counts.has(k)).map((k) => `${counts.get(k)} ${k}`).join(', ')],
+      ['Safety-related', String(input.assessments.filter(needsCautions).length)],
+      ['Input fingerprint', input.fingerprint],
+      ['Built with', `${input.tool.name} ${input.tool.version}`],
+    ],
+  );
+  const filled = fillTemplate(input.templates.pack, {
+    blocks: {
+      contents: [paragraph(CONTENTS)],
+      cover: [cover],
+      decisions: decisionBlocks(input),
+      overview: overviewBlocks(input),
+      characteristics: input.assessments.flatMap((a) => characteristicBlocks(a, input, diagnostics)),
+      cautions: cautionBlocks(input, diagnostics),
+      method: methodBlocks(input, diagnostics),
+      'data-issues': globalIssues,
+    },
+    strings: {
+      title: config.title,
+      organisation: config.organisation || '–',
+      'period-from': config.period.from,
+      'period-to': config.period.to,
+      'as-of': input.asOf,
+      fingerprint: input.fingerprint,
+      'fingerprint-short': input.fingerprint.slice(0, 16),
+      tool: `${input.tool.name} ${input.tool.version}`,
+      count: String(input.assessments.length),
+    },
+  });
+  diagnostics.push(...filled.diagnostics);
+  const nodes = filled.nodes;
+  const contents = assignIds(nodes);
+  const at = nodes.findIndex((n) => n.type === 'paragraph' && plain(n) === CONTENTS);
+  if (at >= 0) {
+    nodes.splice(at, 1, list(contents.filter((c) => c.id !== 'contents').map((c) => [link(`#${c.id}`, c.title)])));
+  }
+  return { tree: { type: 'root', children: nodes }, diagnostics };
+}

@@ -1,0 +1,69 @@
+/**
+ * index.html: one self-contained page. Charts are inline SVG drawn from the
+ * same scenes with real `<text>`; the font is embedded once as a data-URL
+ * `@font-face`; styles are inline; there are no scripts and no external
+ * requests, and a Content-Security-Policy forbids both.
+ */
+import type { Element, ElementContent, Root as HastRoot } from 'hast';
+import type { Root } from 'mdast';
+import rehypeStringify from 'rehype-stringify';
+import remarkRehype from 'remark-rehype';
+import { unified } from 'unified';
+import { FONT_FAMILY } from '../render/fonts.ts';
+import type { Scene } from '../render/scene/types.ts';
+import { inlineSvg } from '../render/svg-inline.ts';
+import { PACK_CSS } from './style.ts';
+
+export interface HtmlInput {
+  readonly tree: Root;
+  readonly title: string;
+  readonly lang?: string;
+  readonly scenes: ReadonlyMap<string, Scene>;
+  readonly fonts: { readonly regular: Uint8Array; readonly semibold: Uint8Array };
+}
+
+const CSP = "default-src 'none'; style-src 'unsafe-inline'; font-src data:; img-src data:; base-uri 'none'; form-action 'none'";
+
+const el = (tagName: string, properties: Element['properties'], children: ElementContent[] = []): Element => ({ type: 'element', tagName, properties, children });
+const txt = (value: string) => ({ type: 'text' as const, value });
+
+function fontFace(bytes: Uint8Array, weight: number): string {
+  return `@font-face{font-family:"${FONT_FAMILY}";font-weight:${weight};font-style:normal;src:url(data:font/ttf;base64,${Buffer.from(bytes).toString('base64')}) format("truetype")}`;
+}
+
+export function toHtml(input: HtmlInput): string {
+  const toHast = unified().use(remarkRehype, {
+    handlers: {
+      image(state, node) {
+        const id = node.data?.chartId;
+        const scene = id ? input.scenes.get(id) : undefined;
+        if (!scene || !id) return state.all(node) as unknown as Element;
+        return el('figure', { className: ['chart'] }, [inlineSvg(scene, `chart-${id}`)]);
+      },
+      // Links inside the pack go to sections; anything else stays text, so nothing in the page points outside it.
+      link(state, node) {
+        const children = state.all(node);
+        return node.url.startsWith('#') ? el('a', { href: node.url }, children) : el('span', {}, children);
+      },
+    },
+  });
+  const body = toHast.runSync(input.tree) as HastRoot;
+  const css = `${fontFace(input.fonts.regular, 400)}\n${fontFace(input.fonts.semibold, 600)}\n${PACK_CSS}`;
+  const doc: HastRoot = {
+    type: 'root',
+    children: [
+      { type: 'doctype' },
+      el('html', { lang: input.lang ?? 'en' }, [
+        el('head', {}, [
+          el('meta', { charSet: 'utf-8' }),
+          el('meta', { httpEquiv: 'Content-Security-Policy', content: CSP }),
+          el('meta', { name: 'viewport', content: 'width=device-width, initial-scale=1' }),
+          el('title', {}, [txt(input.title)]),
+          el('style', {}, [txt(css)]),
+        ]),
+        el('body', {}, [el('main', {}, body.children as ElementContent[])]),
+      ]),
+    ],
+  };
+  return `${unified().use(rehypeStringify).stringify(doc)}\n`;
+}

@@ -1,0 +1,439 @@
+/**
+ * pack.pdf, laid out from the same mdast tree as index.md and index.html:
+ * a cover, a contents page with working links, then every section in the
+ * same order, each level-2 section on a new page. Charts are drawn as
+ * vectors from their scenes; tables break between rows and repeat their
+ * header. Output is byte-identical for identical inputs: the document dates
+ * are the build date and nothing random is written.
+ */
+import type { Code, Heading, List, PhrasingContent, Root, RootContent, Table } from 'mdast';
+import { PDFArray, PDFDocument, type PDFFont, PDFName, type PDFPage, rgb } from 'pdf-lib';
+import { fontkit } from '../render/fontkit.ts';
+import { type PdfFonts, drawScene } from '../render/pdf-chart.ts';
+import type { Scene } from '../render/scene/types.ts';
+import { plain } from './mdast.ts';
+
+export const PAPER = { a4: [595.28, 841.89], letter: [612, 792] } as const;
+export type Paper = keyof typeof PAPER;
+
+export interface PdfInput {
+  readonly tree: Root;
+  readonly title: string;
+  readonly subject: string;
+  readonly author: string;
+  readonly asOf: string;
+  readonly paper: Paper;
+  readonly scenes: ReadonlyMap<string, Scene>;
+  readonly fonts: { readonly regular: Uint8Array; readonly semibold: Uint8Array };
+  readonly producer: string;
+}
+
+const MARGIN = { left: 50, right: 50, top: 54, bottom: 58 };
+const INK = rgb(0.12, 0.12, 0.12);
+const MUTED = rgb(0.36, 0.36, 0.36);
+const RULE = rgb(0.8, 0.8, 0.8);
+const LINK = rgb(0, 0.376, 0.627);
+
+interface Run {
+  readonly text: string;
+  readonly bold: boolean;
+  readonly link?: string;
+  readonly code?: boolean;
+}
+
+interface LinkBox {
+  readonly page: number;
+  readonly rect: readonly [number, number, number, number];
+  readonly target: string;
+}
+
+/** Strip control characters that a PDF text operator would carry literally. */
+const clean = (s: string) => s.replace(/[\u0000-\u0008\u000b-\u001f\u007f]/g, '').replace(/\t/g, ' ');
+
+function runsOf(nodes: readonly PhrasingContent[], bold = false, link?: string): Run[] {
+  const out: Run[] = [];
+  for (const n of nodes) {
+    switch (n.type) {
+      case 'text':
+        out.push({ text: clean(n.value), bold, ...(link ? { link } : {}) });
+        break;
+      case 'inlineCode':
+        out.push({ text: clean(n.value), bold, code: true, ...(link ? { link } : {}) });
+        break;
+      case 'strong':
+        out.push(...runsOf(n.children, true, link));
+        break;
+      case 'emphasis':
+      case 'delete':
+        out.push(...runsOf(n.children, bold, link));
+        break;
+      case 'link':
+        out.push(...runsOf(n.children, bold, n.url));
+        break;
+      case 'break':
+        out.push({ text: '\n', bold });
+        break;
+      default:
+        if ('children' in n) out.push(...runsOf(n.children as PhrasingContent[], bold, link));
+    }
+  }
+  return out;
+}
+
+export async function toPdf(input: PdfInput): Promise<Uint8Array> {
+  const doc = await PDFDocument.create({ updateMetadata: false });
+  doc.registerFontkit(fontkit);
+  const regular = await doc.embedFont(input.fonts.regular, { subset: true });
+  const semibold = await doc.embedFont(input.fonts.semibold, { subset: true });
+  const fonts: PdfFonts = { regular, semibold };
+  const asOf = new Date(`${input.asOf}T00:00:00Z`);
+  doc.setTitle(clean(input.title), { showInWindowTitleBar: true });
+  doc.setSubject(clean(input.subject));
+  doc.setAuthor(clean(input.author));
+  doc.setCreator(input.producer);
+  doc.setProducer(input.producer);
+  doc.setCreationDate(asOf);
+  doc.setModificationDate(asOf);
+  doc.setLanguage('en');
+
+  const [pageW, pageH] = PAPER[input.paper];
+  const width = pageW - MARGIN.left - MARGIN.right;
+  const pages: PDFPage[] = [];
+  const anchors = new Map<string, { page: number; y: number }>();
+  const links: LinkBox[] = [];
+  const contentsLines: { page: number; y: number; target: string }[] = [];
+  let page!: PDFPage;
+  let y = 0;
+
+  const newPage = () => {
+    page = doc.addPage([pageW, pageH]);
+    pages.push(page);
+    y = pageH - MARGIN.top;
+  };
+  const ensure = (h: number) => {
+    if (y - h < MARGIN.bottom) newPage();
+  };
+  const fontOf = (r: Run): PDFFont => (r.bold ? semibold : regular);
+  // pdf-lib shapes the text on every width query; tables and wrapping ask
+  // for the same words again and again, so remember widths at size 1.
+  const widths = new Map<PDFFont, Map<string, number>>([
+    [regular, new Map()],
+    [semibold, new Map()],
+  ]);
+  const widthOf = (font: PDFFont, text: string, size: number): number => {
+    const cache = widths.get(font)!;
+    let w = cache.get(text);
+    if (w === undefined) {
+      w = font.widthOfTextAtSize(text, 1);
+      cache.set(text, w);
+    }
+    return w * size;
+  };
+
+  type Word = { text: string; run: Run; w: number; space: number };
+
+  /** Breaks runs into lines no wider than `maxW`; words longer than a line (ids, hashes) break by characters. */
+  const wrap = (runs: readonly Run[], maxW: number, size: number): Word[][] => {
+    const words: (Word | 'newline')[] = [];
+    for (const r of runs) {
+      const f = fontOf(r);
+      for (const part of r.text.split(/(\n| +)/)) {
+        if (part === '') continue;
+        if (part === '\n') words.push('newline');
+        else if (/^ +$/.test(part)) {
+          const last = words[words.length - 1];
+          if (last && last !== 'newline') last.space = widthOf(f, ' ', size);
+        } else if (widthOf(f, part, size) <= maxW) words.push({ text: part, run: r, w: widthOf(f, part, size), space: 0 });
+        else {
+          let chunk = '';
+          for (const ch of part) {
+            if (chunk && widthOf(f, chunk + ch, size) > maxW) {
+              words.push({ text: chunk, run: r, w: widthOf(f, chunk, size), space: 0 });
+              chunk = '';
+            }
+            chunk += ch;
+          }
+          words.push({ text: chunk, run: r, w: widthOf(f, chunk, size), space: 0 });
+        }
+      }
+    }
+    const lines: Word[][] = [[]];
+    let lineW = 0;
+    for (const w of words) {
+      if (w === 'newline') {
+        lines.push([]);
+        lineW = 0;
+        continue;
+      }
+      const line = lines[lines.length - 1]!;
+      const prev = line[line.length - 1];
+      const needed = (prev ? prev.space : 0) + w.w;
+      if (line.length > 0 && lineW + needed > maxW) {
+        lines.push([w]);
+        lineW = w.w;
+      } else {
+        line.push(w);
+        lineW += needed;
+      }
+    }
+    return lines;
+  };
+
+  /** Draws one line with its top at `top`; internal links become link boxes. */
+  const drawLine = (line: readonly Word[], x: number, top: number, size: number, color = INK) => {
+    let lx = x;
+    const base = top - size * 0.95;
+    // Words of one run are drawn as one string: pdf-lib shapes every string it draws.
+    for (let i = 0; i < line.length; ) {
+      const run = line[i]!.run;
+      let j = i;
+      let textOut = '';
+      let w = 0;
+      while (j < line.length && line[j]!.run === run) {
+        const word = line[j]!;
+        const last = j + 1 === line.length || line[j + 1]!.run !== run;
+        textOut += word.text + (last ? '' : ' ');
+        w += word.w + (last ? 0 : word.space);
+        j++;
+      }
+      const internal = run.link?.startsWith('#');
+      page.drawText(textOut, { x: lx, y: base, size, font: fontOf(run), color: internal ? LINK : color });
+      if (internal) links.push({ page: pages.length - 1, rect: [lx, base - 2, lx + w, base + size], target: run.link!.slice(1) });
+      lx += w + line[j - 1]!.space;
+      i = j;
+    }
+  };
+
+  /** Lines that may break across pages, keeping at least two together at a page foot. */
+  const flowLines = (lines: readonly Word[][], x: number, size: number, lead: number, color = INK) => {
+    ensure(Math.min(lines.length, 2) * lead);
+    for (const line of lines) {
+      ensure(lead);
+      drawLine(line, x, y, size, color);
+      y -= lead;
+    }
+  };
+
+  /** A block of lines kept together (table cells, headings), drawn from `top`; returns its height. */
+  const flow = (runs: readonly Run[], x: number, maxW: number, size: number, lead: number, color = INK, measureOnly = false, top = y): number => {
+    const lines = wrap(runs, maxW, size);
+    if (!measureOnly) lines.forEach((line, k) => drawLine(line, x, top - k * lead, size, color));
+    return lines.length * lead;
+  };
+
+  const paragraphBlock = (runs: readonly Run[], x: number, maxW: number, size = 9.5, color = INK) => {
+    flowLines(wrap(runs, maxW, size), x, size, size * 1.4, color);
+    y -= size * 0.6;
+  };
+
+  const headingBlock = (h: Heading) => {
+    const size = h.depth === 1 ? 22 : h.depth === 2 ? 15 : 11.5;
+    if (h.depth === 2 && y < pageH - MARGIN.top - 1) newPage();
+    // The cover's title sits a third of the way down its page.
+    if (h.depth === 1 && pages.length === 1 && y >= pageH - MARGIN.top - 1) y = pageH * 0.7;
+    ensure(size * 1.3 + 70);
+    const id = (h.data?.hProperties as { id?: string } | undefined)?.id;
+    if (id) anchors.set(id, { page: pages.length - 1, y: y + 4 });
+    if (h.depth > 1) y -= h.depth === 2 ? 0 : 6;
+    const used = flow(runsOf(h.children, true), MARGIN.left, width, size, size * 1.25);
+    y -= used;
+    if (h.depth === 2) {
+      page.drawLine({ start: { x: MARGIN.left, y: y - 2 }, end: { x: MARGIN.left + width, y: y - 2 }, thickness: 1.2, color: INK });
+      y -= 12;
+    } else y -= 4;
+  };
+
+  const listBlock = (l: List, x: number, maxW: number, contents: boolean) => {
+    l.children.forEach((item, k) => {
+      for (const child of item.children) {
+        if (child.type === 'paragraph') {
+          const runs = runsOf(child.children);
+          if (contents) {
+            ensure(16);
+            const target = runs.find((r) => r.link)?.link?.slice(1);
+            flow(runs, x, maxW - 40, 10.5, 15);
+            if (target) contentsLines.push({ page: pages.length - 1, y, target });
+            y -= 16;
+            continue;
+          }
+          const size = 9.5;
+          const lines = wrap(runs, maxW - 12, size);
+          ensure(Math.min(lines.length, 2) * size * 1.4);
+          page.drawText(l.ordered ? `${k + 1}.` : '•', { x, y: y - size * 0.95, size, font: regular, color: MUTED });
+          flowLines(lines, x + 12, size, size * 1.4);
+          y -= 2;
+        } else if (child.type === 'list') listBlock(child, x + 12, maxW - 12, false);
+        else block(child, x + 12, maxW - 12);
+      }
+    });
+    y -= 5;
+  };
+
+  const codeBlock = (c: Code, x: number, maxW: number) => {
+    const size = 7.5;
+    const lead = size * 1.35;
+    const lines = c.value.split('\n').flatMap((raw) => wrap([{ text: clean(raw), bold: false, code: true }], maxW - 12, size));
+    ensure(Math.min(lines.length, 2) * lead + 6);
+    y -= 3;
+    for (const line of lines) {
+      ensure(lead);
+      page.drawRectangle({ x, y: y - lead - 1, width: maxW, height: lead + 2, color: rgb(0.953, 0.953, 0.941) });
+      drawLine(line, x + 6, y, size);
+      y -= lead;
+    }
+    y -= 12;
+  };
+
+  const tableBlock = (t: Table, x: number, maxW: number) => {
+    const size = 8;
+    const lead = size * 1.3;
+    const pad = 3;
+    const rows = t.children.map((r, k) => r.children.map((c) => runsOf(c.children, k === 0)));
+    const cols = Math.max(...rows.map((r) => r.length));
+    const natural = Array.from({ length: cols }, (_, j) =>
+      Math.max(...rows.map((r) => (r[j] ?? []).reduce((s, run) => s + widthOf(fontOf(run), run.text, size), 0) + 2 * pad)),
+    );
+    const minimum = Array.from({ length: cols }, (_, j) =>
+      Math.max(
+        24,
+        ...rows.map((r) => Math.max(0, ...(r[j] ?? []).flatMap((run) => run.text.split(/\s+/).map((w) => widthOf(fontOf(run), w, size)))) + 2 * pad),
+      ),
+    );
+    // Columns get their natural width when everything fits; otherwise the
+    // space above each column's longest word is shared by natural width.
+    let widths = natural.slice();
+    const total = natural.reduce((a, b) => a + b, 0);
+    if (total > maxW) {
+      const fair = minimum.reduce((a, b) => a + b, 0) <= maxW ? minimum : minimum.map((m) => Math.min(m, maxW / cols));
+      const floor = fair;
+      const spare = Math.max(0, maxW - floor.reduce((a, b) => a + b, 0));
+      const extra = natural.map((n, j) => Math.max(0, n - floor[j]!));
+      const extraTotal = extra.reduce((a, b) => a + b, 0) || 1;
+      widths = floor.map((f, j) => f + (spare * extra[j]!) / extraTotal);
+    } else {
+      const stretch = (maxW - total) / cols;
+      widths = natural.map((n) => n + stretch);
+    }
+    const align = t.align ?? [];
+    const heightOf = (r: Run[][]) => Math.max(lead, ...r.map((cell, j) => flow(cell, 0, widths[j]! - 2 * pad, size, lead, INK, true))) + 2 * pad;
+    const drawRow = (r: Run[][], header: boolean) => {
+      const h = heightOf(r);
+      let cx = x;
+      r.forEach((cell, j) => {
+        const w = widths[j]!;
+        const textW = cell.reduce((s, run) => s + widthOf(fontOf(run), run.text, size), 0);
+        const right = align[j] === 'right' && textW <= w - 2 * pad;
+        flow(cell, right ? cx + w - pad - textW : cx + pad, w - 2 * pad, size, lead, INK, false, y - pad);
+        cx += w;
+      });
+      y -= h;
+      page.drawLine({ start: { x, y }, end: { x: x + maxW, y }, thickness: header ? 0.9 : 0.4, color: header ? INK : RULE });
+    };
+    const [head, ...body] = rows;
+    if (!head) return;
+    ensure(heightOf(head) + (body[0] ? heightOf(body[0]) : 0));
+    drawRow(head, true);
+    for (const r of body) {
+      const h = heightOf(r);
+      if (y - h < MARGIN.bottom) {
+        newPage();
+        drawRow(head, true);
+      }
+      drawRow(r, false);
+    }
+    y -= 10;
+  };
+
+  const chartBlock = (scene: Scene, x: number, maxW: number) => {
+    const scale = Math.min(1, maxW / scene.width);
+    const h = scene.height * scale;
+    ensure(h + 6);
+    drawScene(page, scene, { x, top: y, scale }, fonts);
+    y -= h + 8;
+  };
+
+  let inContents = false;
+  const block = (node: RootContent, x = MARGIN.left, maxW = width) => {
+    switch (node.type) {
+      case 'heading': {
+        headingBlock(node);
+        inContents = (node.data?.hProperties as { id?: string } | undefined)?.id === 'contents';
+        break;
+      }
+      case 'paragraph': {
+        const only = node.children.length === 1 ? node.children[0] : undefined;
+        if (only?.type === 'image' && only.data?.chartId) {
+          const scene = input.scenes.get(only.data.chartId);
+          if (scene) chartBlock(scene, x, maxW);
+          break;
+        }
+        paragraphBlock(runsOf(node.children), x, maxW);
+        break;
+      }
+      case 'list':
+        listBlock(node, x, maxW, inContents);
+        break;
+      case 'code':
+        codeBlock(node, x, maxW);
+        break;
+      case 'table':
+        tableBlock(node, x, maxW);
+        break;
+      case 'blockquote':
+        for (const c of node.children) block(c, x + 12, maxW - 12);
+        break;
+      case 'thematicBreak':
+        ensure(12);
+        page.drawLine({ start: { x, y: y - 6 }, end: { x: x + maxW, y: y - 6 }, thickness: 0.5, color: RULE });
+        y -= 12;
+        break;
+      case 'html':
+        // Raw HTML is never rendered (the HTML pack drops it too).
+        break;
+      default:
+        if ('children' in node) paragraphBlock([{ text: plain(node as { type: string; children: unknown[] }), bold: false }], x, maxW);
+    }
+  };
+
+  newPage();
+  for (const node of input.tree.children) block(node);
+
+  // Contents page numbers and every internal link, now that pages are known.
+  for (const line of contentsLines) {
+    const target = anchors.get(line.target);
+    if (!target) continue;
+    const label = String(target.page + 1);
+    const p = pages[line.page]!;
+    p.drawText(label, { x: MARGIN.left + width - widthOf(regular, label, 10.5), y: line.y + 16 - 10.5 * 0.95, size: 10.5, font: regular, color: INK });
+    links.push({ page: line.page, rect: [MARGIN.left, line.y, MARGIN.left + width, line.y + 16], target: line.target });
+  }
+  for (const l of links) {
+    const target = anchors.get(l.target);
+    if (!target) continue;
+    const annot = doc.context.obj({
+      Type: 'Annot',
+      Subtype: 'Link',
+      Rect: [...l.rect],
+      Border: [0, 0, 0],
+      Dest: [pages[target.page]!.ref, PDFName.of('XYZ'), null, target.y, null],
+    });
+    const ref = doc.context.register(annot);
+    const p = pages[l.page]!;
+    let annots = p.node.lookupMaybe(PDFName.of('Annots'), PDFArray);
+    if (!annots) {
+      annots = doc.context.obj([]);
+      p.node.set(PDFName.of('Annots'), annots);
+    }
+    annots.push(ref);
+  }
+  const footer = clean(input.title);
+  pages.forEach((p, i) => {
+    const n = `Page ${i + 1} of ${pages.length}`;
+    p.drawText(n, { x: MARGIN.left + width - widthOf(regular, n, 8), y: MARGIN.bottom - 26, size: 8, font: regular, color: MUTED });
+    const maxTitle = width - widthOf(regular, n, 8) - 20;
+    let t = footer;
+    while (t && widthOf(regular, t, 8) > maxTitle) t = t.slice(0, -2);
+    p.drawText(t === footer ? t : `${t}…`, { x: MARGIN.left, y: MARGIN.bottom - 26, size: 8, font: regular, color: MUTED });
+  });
+  return doc.save({ useObjectStreams: false });
+}
