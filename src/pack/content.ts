@@ -380,5 +380,11 @@ export function buildPackTree(input: PackInput): { tree: Root; diagnostics: Diag
   if (at >= 0) {
     nodes.splice(at, 1, list(contents.filter((c) => c.id !== 'contents').map((c) => [link(`#${c.id}`, c.title)])));
   }
-  return { tree: { type: 'root', children: nodes }, diagnostics };
+  // A template problem repeats for every characteristic; report it once.
+  const seen = new Set<string>();
+  const unique = diagnostics.filter((d) => {
+    const key = `${d.file}:${d.line}:${d.message}`;
+    return seen.has(key) ? false : (seen.add(key), true);
+  });
+  return { tree: { type: 'root', children: nodes }, diagnostics: unique };
 }

@@ -1,0 +1,139 @@
+/**
+ * The pack tree: templates and their placeholders, the cautions section,
+ * hostile text from the data, and the root-phrasing rule of
+ * mdast-util-to-markdown (phrasing at the root runs the document together).
+ */
+import { cpSync, mkdtempSync, mkdirSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import type { Element } from 'hast';
+import { fromHtml } from 'hast-util-from-html';
+import remarkGfm from 'remark-gfm';
+import remarkParse from 'remark-parse';
+import { unified } from 'unified';
+import { visit } from 'unist-util-visit';
+import { afterAll, describe, expect, it } from 'vitest';
+import type { Assessment } from '../../src/analyse.ts';
+import { buildPackTree } from '../../src/pack/content.ts';
+import { toHtml } from '../../src/pack/html.ts';
+import { toMarkdown } from '../../src/pack/markdown.ts';
+import type { Templates } from '../../src/pack/template.ts';
+import type { ReviewConfig } from '../../src/model.ts';
+import { readTemplates } from '../../src/workspace/templates.ts';
+import { loadWorkspace } from '../../src/workspace/load.ts';
+import { planSummary } from '../../src/assess.ts';
+import { fonts } from '../helpers/charts.ts';
+import { assess, isoDay, ledgerCsv, pointsCsv } from '../helpers/in-memory.ts';
+
+const temp = mkdtempSync(path.join(tmpdir(), 'plumbline-content-'));
+afterAll(() => rmSync(temp, { recursive: true, force: true }));
+const toolTemplates = readTemplates(path.join(temp, 'none')).templates;
+
+function tree(assessments: Assessment[], templates: Templates = toolTemplates, config: Partial<ReviewConfig> = {}) {
+  return buildPackTree({
+    config: {
+      title: 'Review',
+      organisation: 'Org',
+      period: { from: '1900-01-01', to: '2999-12-31' },
+      rules: 'western-electric',
+      minPoints: 5,
+      freezeAfter: 20,
+      characteristics: assessments.map((a) => a.characteristic),
+      ...config,
+    },
+    assessments,
+    diagnostics: [],
+    asOf: '2020-02-01',
+    fingerprint: 'f'.repeat(64),
+    tool: { name: 'plumbline', version: '0.0.0' },
+    templates,
+    chartFile: (id) => `charts/${id}.svg`,
+  });
+}
+
+const stable = (over: Partial<Assessment['characteristic']> = {}): Assessment => {
+  const a = assess({ chart: 'individuals', csv: pointsCsv('date,value', Array.from({ length: 10 }, (_, i) => [10 + (i % 2 ? 0.3 : -0.3)])) });
+  return { ...a, characteristic: { ...a.characteristic, ...over } } as Assessment;
+};
+
+describe('the tree', () => {
+  it('never puts phrasing content at the root (it would run the Markdown together)', () => {
+    const { tree: t } = tree([stable(), stable({ id: 'y', safety: true })]);
+    const phrasing = ['text', 'strong', 'emphasis', 'link', 'image', 'inlineCode', 'break'];
+    expect(t.children.filter((n) => phrasing.includes(n.type))).toEqual([]);
+  });
+  it('brings the cautions section only when a characteristic is safety-related or tagged as an incident count', () => {
+    const heads = (a: Assessment[]) => tree(a).tree.children.filter((n) => n.type === 'heading' && n.depth === 2).map((n) => toMarkdown({ type: 'root', children: [n] }).trim());
+    expect(heads([stable()])).not.toContain('## Cautions');
+    expect(heads([stable({ safety: true })])).toContain('## Cautions');
+    expect(heads([stable({ tags: ['incidents'] })])).toContain('## Cautions');
+    const md = toMarkdown(tree([stable({ safety: true, name: 'Lost-time injuries' })]).tree);
+    for (const phrase of ['Not a target, not for blame', 'Control limits are not specification or regulatory limits', 'qualified safety professionals decide', '[Lost-time injuries](#c-x)']) {
+      expect(md).toContain(phrase);
+    }
+  });
+});
+
+describe('templates', () => {
+  it('a workspace template replaces the tool’s, and its unknown placeholders are reported with file and line', () => {
+    const ws = path.join(temp, 'ws');
+    cpSync(path.join(import.meta.dirname, '../fixtures/engine'), ws, { recursive: true });
+    mkdirSync(path.join(ws, 'templates'));
+    writeFileSync(path.join(ws, 'templates/characteristic.md'), '## {{name}} ({{id}})\n\nOur own words.\n\n{{chart}}\n\n{{nonsense}}\n\nAction: {{action}} {{typo}}\n');
+    const loaded = loadWorkspace(ws);
+    if (!loaded.ok) throw new Error('no load');
+    expect(loaded.workspace.inputs.has('templates/characteristic.md')).toBe(true);
+    const plan = planSummary(loaded.workspace, '2026-11-30');
+    const built = tree(plan.assessments as Assessment[], loaded.workspace.templates, loaded.workspace.config);
+    const md = toMarkdown(built.tree);
+    expect(md).toContain('## Fill volume (fill-trial)');
+    expect(md).toContain('Our own words.');
+    expect(md).toContain('Action: freeze the trial limits {{typo}}');
+    const unknown = built.diagnostics.filter((d) => d.ruleId === 'template/unknown-placeholder');
+    // Each of the ten characteristics reports both, at their lines in the template.
+    expect(new Set(unknown.map((d) => `${d.file}:${d.line}:${d.message.split(' ')[0]}`))).toEqual(
+      new Set(['templates/characteristic.md:7:{{nonsense}}', 'templates/characteristic.md:9:{{typo}}']),
+    );
+  });
+});
+
+describe('text from the data is text in every output', () => {
+  const payloads = [
+    '<script>alert(1)</script>',
+    '<img src=x onerror=alert(1)>',
+    '[click](javascript:alert(1))',
+    '<svg><foreignObject><div>x</div></foreignObject></svg>',
+    '**bold** _em_ `code` # heading',
+  ];
+  const a = assess({
+    chart: 'individuals',
+    csv: pointsCsv('date,value', Array.from({ length: 12 }, (_, i) => [10 + (i % 2 ? 0.3 : -0.3) + (i === 9 ? 5 : 0)])),
+    ledger: ledgerCsv([`${isoDay(20)},x,reviewed,10,"${payloads[0]} ${payloads[2]}",<b>me</b>`]),
+  });
+  const hostile = { ...a, characteristic: { ...a.characteristic, name: payloads.join(' '), unit: payloads[1]! } } as Assessment;
+  const t = tree([hostile]).tree;
+  it('HTML: no script, handler, image, foreign object or javascript: link appears; the payload reads as text', () => {
+    const html = toHtml({ tree: t, title: payloads[0]!, scenes: new Map(), fonts });
+    const els: Element[] = [];
+    visit(fromHtml(html), 'element', (e: Element) => void els.push(e));
+    for (const tag of ['script', 'img', 'foreignObject', 'iframe']) expect(els.filter((e) => e.tagName === tag), tag).toHaveLength(0);
+    for (const e of els) for (const [k, v] of Object.entries(e.properties)) {
+      expect(k.startsWith('on'), `${e.tagName}.${k}`).toBe(false);
+      expect(String(v)).not.toMatch(/javascript:/i);
+    }
+    expect(html).toContain('&#x3C;script>alert(1)&#x3C;/script>');
+  });
+  it('Markdown: re-parsed, the payloads are text — no HTML nodes and no links but the pack’s own', () => {
+    const md = unified().use(remarkParse).use(remarkGfm).parse(toMarkdown(t));
+    let html = 0;
+    const urls: string[] = [];
+    visit(md, 'html', () => void html++);
+    visit(md, 'link', (l) => void urls.push(l.url));
+    expect(html).toBe(0);
+    expect(urls.every((u) => u.startsWith('#'))).toBe(true);
+    const texts: string[] = [];
+    visit(md, 'text', (n) => void texts.push(n.value));
+    expect(texts.join(' ')).toContain('<script>alert(1)</script>');
+    expect(texts.join(' ')).toContain('[click](javascript:alert(1))');
+  });
+});

@@ -1,0 +1,135 @@
+/**
+ * The three renderers of one scene: satori's standalone SVG (text as glyph
+ * paths), the inline SVG of the HTML pack (text as text), PNG through resvg,
+ * and vector drawing into a PDF read back by poppler's pdftotext.
+ */
+import { execFileSync } from 'node:child_process';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import { inflateSync } from 'node:zlib';
+import { toHtml as hastToHtml } from 'hast-util-to-html';
+import { PDFDocument } from 'pdf-lib';
+import { afterAll, describe, expect, it } from 'vitest';
+import { fontkit } from '../../src/render/fontkit.ts';
+import { drawScene } from '../../src/render/pdf-chart.ts';
+import { svgToPng } from '../../src/render/png.ts';
+import type { Scene } from '../../src/render/scene/types.ts';
+import { inlineSvg } from '../../src/render/svg-inline.ts';
+import { renderStandaloneSvg } from '../../src/render/svg-satori.ts';
+import { fonts, sceneOf, texts } from '../helpers/charts.ts';
+import { assess, assessed, ledgerCsv, pointsCsv } from '../helpers/in-memory.ts';
+import { streams } from '../helpers/pdf.ts';
+
+const temp = mkdtempSync(path.join(tmpdir(), 'plumbline-render-'));
+afterAll(() => rmSync(temp, { recursive: true, force: true }));
+
+const values = Array.from({ length: 30 }, (_, i) => 10 + (i % 2 === 0 ? 0.4 : -0.4) + (i === 20 ? 4 : 0));
+const scene: Scene = {
+  ...sceneOf(assessed(assess({ chart: 'individuals', csv: pointsCsv('date,value', values.map((v) => [v])), ledger: ledgerCsv([]) }))),
+  title: 'Fill <volume> & "head" 3',
+};
+
+/** Decodes an 8-bit RGBA PNG (what resvg writes) and counts pixels that are not white. */
+function inkedPixels(png: Uint8Array): { width: number; height: number; inked: number } {
+  const buf = Buffer.from(png);
+  expect(buf.subarray(0, 8)).toEqual(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]));
+  let off = 8;
+  let width = 0;
+  let height = 0;
+  const idat: Buffer[] = [];
+  while (off < buf.length) {
+    const len = buf.readUInt32BE(off);
+    const type = buf.toString('latin1', off + 4, off + 8);
+    const data = buf.subarray(off + 8, off + 8 + len);
+    if (type === 'IHDR') {
+      width = data.readUInt32BE(0);
+      height = data.readUInt32BE(4);
+      expect([data[8], data[9]]).toEqual([8, 6]);
+    }
+    if (type === 'IDAT') idat.push(data);
+    off += 12 + len;
+  }
+  const raw = inflateSync(Buffer.concat(idat));
+  const stride = width * 4;
+  const prev = Buffer.alloc(stride);
+  const row = Buffer.alloc(stride);
+  let inked = 0;
+  // PNG filters (ISO/IEC 15948, section 9): undo them row by row.
+  for (let y = 0; y < height; y++) {
+    const f = raw[y * (stride + 1)]!;
+    for (let x = 0; x < stride; x++) {
+      const v = raw[y * (stride + 1) + 1 + x]!;
+      const a = x >= 4 ? row[x - 4]! : 0;
+      const b = prev[x]!;
+      const c = x >= 4 ? prev[x - 4]! : 0;
+      const p = a + b - c;
+      const pa = Math.abs(p - a);
+      const pb = Math.abs(p - b);
+      const pc = Math.abs(p - c);
+      const paeth = pa <= pb && pa <= pc ? a : pb <= pc ? b : c;
+      row[x] = (v + [0, a, b, (a + b) >> 1, paeth][f]!) & 255;
+    }
+    for (let x = 0; x < stride; x += 4) if (row[x]! < 250 || row[x + 1]! < 250 || row[x + 2]! < 250) inked++;
+    row.copy(prev);
+  }
+  return { width, height, inked };
+}
+
+describe('standalone SVG (satori)', () => {
+  it('has an escaped <title> and a <desc>, labels as glyph paths and no <text>', async () => {
+    const svg = await renderStandaloneSvg(scene, fonts);
+    expect(svg.startsWith('<svg ')).toBe(true);
+    expect(svg).toContain('<title>Fill &lt;volume&gt; &amp; &quot;head&quot; 3</title>');
+    expect(svg).toMatch(/<desc>Individuals and moving range chart of X: 30 points/);
+    expect(svg).not.toMatch(/<text[\s>]/);
+    expect(svg).toMatch(/<path fill="#1f1f1f" d="M/);
+  });
+  it('is byte-identical for the same scene', async () => {
+    expect(await renderStandaloneSvg(scene, fonts)).toBe(await renderStandaloneSvg(scene, fonts));
+  });
+});
+
+describe('inline SVG (HTML pack)', () => {
+  it('keeps every label as a <text> element with the scene’s words, escaped', () => {
+    const html = hastToHtml(inlineSvg(scene, 'chart-x'));
+    const found = [...html.matchAll(/<text[^>]*>([^<]*)<\/text>/g)].map((m) => m[1]);
+    expect(found).toHaveLength(texts(scene).length);
+    expect(found.filter((t) => /^UCL \d+\.\d+$/.test(t!))).toHaveLength(2);
+    expect(html).toContain('<title id="chart-x-title">Fill &#x3C;volume> &#x26; "head" 3</title>');
+    expect(html).toMatch(/aria-labelledby="chart-x-title chart-x-desc"/);
+  });
+});
+
+describe('PNG (resvg)', () => {
+  it('renders at the asked width, with the labels inked (our font, no system fonts)', async () => {
+    const svg = await renderStandaloneSvg(scene, fonts);
+    const full = inkedPixels(svg ? svgToPng(svg, [fonts.regularPath], scene.width * 2) : new Uint8Array());
+    const bare = inkedPixels(svgToPng(await renderStandaloneSvg({ ...scene, items: scene.items.filter((p) => p.kind !== 'text') }, fonts), [fonts.regularPath], scene.width * 2));
+    expect(full.width).toBe(scene.width * 2);
+    expect(full.height).toBe(scene.height * 2);
+    // The labels add ink: thousands of pixels at twice the size.
+    expect(full.inked - bare.inked).toBeGreaterThan(5000);
+  });
+});
+
+describe('PDF drawing (pdf-lib)', () => {
+  it('draws the labels as real text that a PDF reader extracts, and the geometry as vector paths', async () => {
+    const doc = await PDFDocument.create({ updateMetadata: false });
+    doc.registerFontkit(fontkit);
+    const regular = await doc.embedFont(fonts.regular, { subset: true });
+    const semibold = await doc.embedFont(fonts.semibold, { subset: true });
+    const page = doc.addPage([scene.width + 40, scene.height + 40]);
+    drawScene(page, scene, { x: 20, top: scene.height + 20, scale: 1 }, { regular, semibold });
+    const bytes = await doc.save({ useObjectStreams: false });
+    const file = path.join(temp, 'chart.pdf');
+    writeFileSync(file, bytes);
+    const extracted = execFileSync('pdftotext', ['-layout', file, '-'], { encoding: 'utf8' });
+    for (const t of ['Individuals and moving range chart', 'Individual value', 'Moving range', 'UCL', 'LCL', 'beyond a limit']) expect(extracted).toContain(t);
+    // Paths are drawn with PDF path operators (l = line to, c = curve to), not as an image.
+    expect(Buffer.from(bytes).toString('latin1')).not.toMatch(/\/Subtype\s*\/Image/);
+    const ops = streams(bytes).join('\n');
+    expect((ops.match(/ l\n/g) ?? []).length).toBeGreaterThan(100);
+    expect((ops.match(/ c\n/g) ?? []).length).toBeGreaterThan(100);
+  });
+});
