@@ -265,8 +265,11 @@ function overviewBlocks(input: PackInput): RootContent[] {
     const name = [link(`#${sectionId(c.id)}`, c.name)];
     if (a.status !== 'assessed') return [name, c.chart, limitStatus(a), '–', '–', 'cannot be assessed'];
     const inPeriod = new Set(periodIndices(a, input.config));
-    const flagged = new Set(signalsInPeriod(a, inPeriod).flatMap((s) => s.flagged.filter((i) => inPeriod.has(i))));
-    return [name, c.chart, limitStatus(a), String(inPeriod.size), flagged.size ? `${plural(flagged.size, 'point')} flagged` : 'none', actionWords(a)];
+    const inPeriodSignals = signalsInPeriod(a, inPeriod);
+    const flagged = new Set(inPeriodSignals.flatMap((s) => s.flagged.filter((i) => inPeriod.has(i))));
+    const open = new Set(inPeriodSignals.filter((s) => !s.explained).flatMap((s) => s.flagged.filter((i) => inPeriod.has(i))));
+    const signals = flagged.size === 0 ? 'none' : `${plural(flagged.size, 'point')} flagged${open.size === 0 ? ', all explained' : open.size < flagged.size ? `, ${open.size} unexplained` : ''}`;
+    return [name, c.chart, limitStatus(a), String(inPeriod.size), signals, actionWords(a)];
   });
   return [table(['Characteristic', 'Chart', 'Limits', 'Points in period', 'Signals in period', 'Action'], rows, [null, null, null, 'right', null, null])];
 }

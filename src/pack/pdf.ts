@@ -133,7 +133,9 @@ export async function toPdf(input: PdfInput): Promise<Uint8Array> {
   type Word = { text: string; run: Run; w: number; space: number };
 
   /** Breaks runs into lines no wider than `maxW`; words longer than a line (ids, hashes) break by characters. */
-  const wrap = (runs: readonly Run[], maxW: number, size: number): Word[][] => {
+  const wrap = (runs: readonly Run[], width: number, size: number): Word[][] => {
+    // Column widths are sums of measured widths; allow for rounding so a word measured to fit does fit.
+    const maxW = width + 0.01;
     const words: (Word | 'newline')[] = [];
     for (const r of runs) {
       const f = fontOf(r);
@@ -404,8 +406,9 @@ export async function toPdf(input: PdfInput): Promise<Uint8Array> {
     if (!target) continue;
     const label = String(target.page + 1);
     const p = pages[line.page]!;
-    p.drawText(label, { x: MARGIN.left + width - widthOf(regular, label, 10.5), y: line.y + 16 - 10.5 * 0.95, size: 10.5, font: regular, color: INK });
-    links.push({ page: line.page, rect: [MARGIN.left, line.y, MARGIN.left + width, line.y + 16], target: line.target });
+    // line.y is the top of the entry's line; its baseline sits 0.95 of the size below.
+    p.drawText(label, { x: MARGIN.left + width - widthOf(regular, label, 10.5), y: line.y - 10.5 * 0.95, size: 10.5, font: regular, color: INK });
+    links.push({ page: line.page, rect: [MARGIN.left, line.y - 14, MARGIN.left + width, line.y + 1], target: line.target });
   }
   for (const l of links) {
     const target = anchors.get(l.target);

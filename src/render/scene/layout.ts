@@ -9,6 +9,7 @@ import type { Limits } from '../../stats/family.ts';
 import type { ChartSpec, LimitKind, PanelSpec } from './spec.ts';
 import {
   BOUNDARY,
+  CHANGE,
   CENTER,
   GRID,
   INK,
@@ -112,6 +113,7 @@ export function layoutChart(spec: ChartSpec, metrics: TextMetrics, options: Layo
       : []),
     ...(spec.period ? [{ label: 'review period', swatch: (x: number, y: number): Primitive[] => [{ kind: 'rect', x, y: y - 4, w: 18, h: 8, fill: PERIOD, opacity: 0.35 }] }] : []),
     ...(spec.baselines.length > 1 ? [{ label: 'new baseline', swatch: (x: number, y: number) => [line(x + 9, y - 5, x + 9, y + 5, BOUNDARY)] }] : []),
+    ...(spec.changes.length ? [{ label: 'recorded change', swatch: (x: number, y: number) => [line(x + 9, y - 5, x + 9, y + 5, CHANGE)] }] : []),
     ...(spec.excluded.length ? [{ label: 'excluded', swatch: (x: number, y: number) => excludedMark(x + 9, y, 2.4) }] : []),
     ...rulesShown.map((id) => ({
       label: rule(id)?.short ?? id,
@@ -220,6 +222,25 @@ export function layoutChart(spec: ChartSpec, metrics: TextMetrics, options: Layo
       const w = metrics.width(label, 7.5);
       items.push({ kind: 'rect', x: xb + 1.5, y: firstTop + 2, w: w + 3, h: 10, fill: WHITE, opacity: 0.85 });
       text(xb + 3, firstTop + 9.5, label, 7.5, 'start', MUTED);
+    }
+  });
+
+  // Recorded changes: a line through the panels, labelled where no baseline label sits already.
+  const labelled = new Set(spec.baselines.slice(1).map((b) => b.start));
+  spec.changes.forEach((c, k) => {
+    const xc = x(c.index) - half;
+    items.push(line(xc, firstTop, xc, lastBottom, CHANGE));
+    if (labelled.has(c.index)) return;
+    const next = Math.min(
+      plotRight,
+      ...spec.changes.slice(k + 1).map((n) => x(n.index) - half),
+      ...spec.baselines.slice(1).filter((b) => b.start > c.index).map((b) => x(b.start) - half),
+    );
+    const label = truncate(metrics, `change: ${c.reason}`, 7.5, next - xc - 8);
+    if (label) {
+      const w = metrics.width(label, 7.5);
+      items.push({ kind: 'rect', x: xc + 1.5, y: firstTop + 14, w: w + 3, h: 10, fill: WHITE, opacity: 0.85 });
+      text(xc + 3, firstTop + 21.5, label, 7.5, 'start', MUTED);
     }
   });
 

@@ -43,6 +43,8 @@ export interface ChartSpec {
   readonly labels: readonly string[];
   readonly baselines: readonly BaselineSpan[];
   readonly excluded: readonly number[];
+  /** Process changes recorded in the ledger (`change` entries), at the point where they took effect. */
+  readonly changes: readonly { readonly index: number; readonly reason: string }[];
   /** First and last index inside the review period, or null when no point falls in it. */
   readonly period: { readonly first: number; readonly last: number } | null;
   readonly panels: readonly PanelSpec[];
@@ -133,6 +135,7 @@ export function chartSpec(a: Assessed, period: { readonly from: IsoDate; readonl
     labels: a.samples.map((s) => s.label),
     baselines,
     excluded: [...a.ledger.excluded.keys()].sort((x, y) => x - y),
+    changes: a.ledger.changes.map((c) => ({ index: c.index, reason: c.entry.reason })).sort((x, y) => x.index - y.index),
     period: inPeriod.length ? { first: inPeriod[0]!, last: inPeriod[inPeriod.length - 1]! } : null,
     panels,
     desc,

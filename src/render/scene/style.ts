@@ -34,6 +34,8 @@ export function centerStroke(kind: LimitKind): Stroke {
 }
 
 export const BOUNDARY: Stroke = { paint: MUTED, width: 0.8, dash: [2, 2] };
+/** A recorded process change: a finer dot than a baseline boundary, in the palette's orange. */
+export const CHANGE: Stroke = { paint: '#e69f00', width: 1.2, dash: [1, 2.5] };
 
 export type Shape = 'diamond' | 'triangle-up' | 'triangle-down' | 'square' | 'triangle-right' | 'hexagon' | 'bowtie' | 'star';
 
