@@ -8,7 +8,7 @@ import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 
 const SRC = path.join(import.meta.dirname, '../src');
-const PURE = ['stats', 'limits', 'signals', 'review'];
+const PURE = ['stats', 'limits', 'signals', 'review', 'render/scene'];
 const FORBIDDEN: [RegExp, string][] = [
   [/from ['"]node:(fs|path|os|child_process)['"]/, 'imports a node I/O module'],
   [/\bprocess\./, 'touches process'],
@@ -22,6 +22,11 @@ const files = [
   ),
   'analyse.ts',
   'summary.ts',
+  'format.ts',
+  'pack/content.ts',
+  'pack/template.ts',
+  'pack/mdast.ts',
+  'pack/markdown.ts',
 ];
 
 describe('the analysis core stays pure', () => {
