@@ -22,6 +22,11 @@ describe('niceTicks picks 1, 2, 2.5 or 5 × 10^k steps', () => {
   it('a 2.5 step needs one decimal more than its power of ten', () => {
     expect(niceTicks(0, 1, 3)).toEqual({ values: [0, 0.25, 0.5, 0.75, 1], decimals: 2 });
   });
+  it('counts keep whole-number ticks: 0 to 14 steps by 5, not 2.5', () => {
+    expect(niceTicks(0, 14, 5)).toEqual({ values: [0, 2.5, 5, 7.5, 10, 12.5], decimals: 1 });
+    expect(niceTicks(0, 14, 5, true)).toEqual({ values: [0, 5, 10], decimals: 0 });
+    expect(niceTicks(0, 3, 5, true).values).toEqual([0, 1, 2, 3]);
+  });
   it('small fractions (a p chart) keep enough decimals to tell ticks apart', () => {
     const t = niceTicks(0, 0.034, 4);
     expect(t.values).toEqual([0, 0.01, 0.02, 0.03]);

@@ -139,7 +139,7 @@ export function layoutChart(spec: ChartSpec, metrics: TextMetrics, options: Layo
   const frames: PanelFrame[] = spec.panels.map((p, k) => {
     const [lo, hi] = domainOf(p);
     const h = heights[k] ?? 80;
-    const frame = { spec: p, top, bottom: top + h, lo, hi, ticks: niceTicks(lo, hi, Math.max(3, Math.round(h / 36))) };
+    const frame = { spec: p, top, bottom: top + h, lo, hi, ticks: niceTicks(lo, hi, Math.max(3, Math.round(h / 36)), p.counts) };
     top += h + 26;
     return frame;
   });

@@ -25,6 +25,8 @@ export interface PanelSpec {
   readonly markers: readonly { readonly index: number; readonly rule: string }[];
   /** Decimals for this panel's limit labels. */
   readonly decimals: number;
+  /** The plotted statistic is a whole count (np, c): axis ticks stay on whole numbers. */
+  readonly counts: boolean;
 }
 
 export interface BaselineSpan {
@@ -99,6 +101,7 @@ export function chartSpec(a: Assessed, period: { readonly from: IsoDate; readonl
       zones: !attributes,
       markers: markersOf(a.location.signals),
       decimals: labelDecimals(a.location.values, a.location.limits),
+      counts: ch.chart === 'np' || ch.chart === 'c',
     },
   ];
   if (a.dispersion && fam.dispersionLabel) {
@@ -110,6 +113,7 @@ export function chartSpec(a: Assessed, period: { readonly from: IsoDate; readonl
       zones: false,
       markers: markersOf(a.dispersion.signals),
       decimals: labelDecimals(a.dispersion.values, a.dispersion.limits),
+      counts: false,
     });
   }
 

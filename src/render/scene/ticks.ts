@@ -11,12 +11,14 @@ export interface ValueTicks {
   readonly decimals: number;
 }
 
-export function niceTicks(lo: number, hi: number, wanted: number): ValueTicks {
+/** `integer` keeps ticks on whole numbers, for counts. */
+export function niceTicks(lo: number, hi: number, wanted: number, integer = false): ValueTicks {
   const span = hi - lo;
   const raw = span / Math.max(1, wanted);
   const power = 10 ** Math.floor(Math.log10(raw));
   // The finest nice step that gives at most one tick more than wanted.
-  const step = [0.5, 1, 2, 2.5, 5, 10].map((m) => m * power).find((s) => span / s <= wanted + 1) ?? 10 * power;
+  const candidates = [0.5, 1, 2, 2.5, 5, 10, 20].map((m) => m * power).filter((s) => !integer || (s >= 1 && Number.isInteger(s)));
+  const step = candidates.find((s) => span / s <= wanted + 1) ?? candidates[candidates.length - 1]!;
   const decimals = Math.max(0, -Math.floor(Math.log10(step) + 1e-9) + (Math.abs(step / 10 ** Math.floor(Math.log10(step) + 1e-9) - 2.5) < 1e-9 ? 1 : 0));
   const values: number[] = [];
   const first = Math.ceil(lo / step - 1e-9);
