@@ -122,7 +122,7 @@ function check(args: string[], io: Io): number {
   const loaded = loadWorkspace(workspaceArg(positionals, 'check'));
   if (!loaded.ok) {
     printDiagnostics(io, loaded.diagnostics, false);
-    io.err('review.yaml has problems; nothing else was checked.');
+    io.err('The workspace cannot be read (review.yaml or a template); nothing else was checked.');
     return EXIT.usage;
   }
   const plan = planSummary(loaded.workspace, loaded.workspace.config.period.to);
@@ -156,7 +156,7 @@ async function build(args: string[], io: Io): Promise<number> {
   const loaded = loadWorkspace(dir);
   if (!loaded.ok) {
     printDiagnostics(io, loaded.diagnostics, false);
-    io.err('Nothing was written: fix review.yaml first.');
+    io.err('Nothing was written: fix the problems above first.');
     return EXIT.usage;
   }
   const ws = loaded.workspace;

@@ -31,3 +31,12 @@ export function geom(value: number): string {
 export function pct(fraction: number, decimals = 2): string {
   return `${fmt(fraction * 100, decimals)}%`;
 }
+
+/**
+ * Text with the control characters removed (tab and line breaks become
+ * spaces): XML forbids most of them, PDF text operators would carry them
+ * literally, and none of them means anything in a label or a table cell.
+ */
+export function printable(s: string): string {
+  return s.replace(/[\t\n\r]/g, ' ').replace(/[\u0000-\u001f\u007f-\u009f]/g, '');
+}

@@ -1,11 +1,12 @@
 /** Small builders for the mdast nodes the pack is made of. Text is always a text node, so it is escaped by every serialiser. */
+import { printable } from '../format.ts';
 import type { BlockContent, Code, Heading, Image, Link, List, Paragraph, PhrasingContent, Strong, Table, TableCell, Text } from 'mdast';
 
 export type Inline = PhrasingContent | string;
 
 const phrasing = (items: readonly Inline[]): PhrasingContent[] => items.map((i) => (typeof i === 'string' ? text(i) : i));
 
-export const text = (value: string): Text => ({ type: 'text', value });
+export const text = (value: string): Text => ({ type: 'text', value: printable(value) });
 export const strong = (...children: Inline[]): Strong => ({ type: 'strong', children: phrasing(children) });
 export const paragraph = (...children: Inline[]): Paragraph => ({ type: 'paragraph', children: phrasing(children) });
 export const link = (url: string, ...children: Inline[]): Link => ({ type: 'link', url, children: phrasing(children) });
@@ -43,7 +44,7 @@ export function table(header: readonly string[], rows: readonly (readonly Inline
 
 /** A chart: an image whose file is the standalone SVG, carrying the chart's id for the HTML and PDF serialisers. */
 export function chartImage(id: string, alt: string, file: string): Image {
-  return { type: 'image', url: file, alt, data: { chartId: id } };
+  return { type: 'image', url: file, alt: printable(alt), data: { chartId: id } };
 }
 
 /** Plain text of a node tree (for slugs and the contents). */

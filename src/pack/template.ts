@@ -11,6 +11,7 @@ import remarkParse from 'remark-parse';
 import { unified } from 'unified';
 import { visit } from 'unist-util-visit';
 import { type Diagnostic, warning } from '../diagnostics.ts';
+import { printable } from '../format.ts';
 
 export const TEMPLATE_NAMES = ['pack', 'characteristic', 'cautions', 'method'] as const;
 export type TemplateName = (typeof TEMPLATE_NAMES)[number];
@@ -71,7 +72,7 @@ export function fillTemplate(template: Template, values: Values): { nodes: RootC
     visit(node, 'text', (t) => {
       t.value = t.value.replace(INLINE, (whole, name: string) => {
         const v = values.strings[name];
-        if (v !== undefined) return v;
+        if (v !== undefined) return printable(v);
         unknown(name, t.position?.start.line);
         return whole;
       });

@@ -5,12 +5,12 @@
  * stays light. hast serialisation escapes every string.
  */
 import type { Element, ElementContent } from 'hast';
-import { geom } from '../format.ts';
+import { geom, printable } from '../format.ts';
 import { FONT_FAMILY } from './fonts.ts';
 import type { Primitive, Scene } from './scene/types.ts';
 
 export function escapeXml(s: string): string {
-  return s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
+  return printable(s).replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
 }
 
 const el = (tagName: string, properties: Element['properties'], children: ElementContent[] = []): Element => ({
@@ -63,8 +63,8 @@ export function inlineSvg(scene: Scene, idBase: string): Element {
       fill: '#1f1f1f',
     },
     [
-      el('title', { id: `${idBase}-title` }, [{ type: 'text', value: scene.title }]),
-      el('desc', { id: `${idBase}-desc` }, [{ type: 'text', value: scene.desc }]),
+      el('title', { id: `${idBase}-title` }, [{ type: 'text', value: printable(scene.title) }]),
+      el('desc', { id: `${idBase}-desc` }, [{ type: 'text', value: printable(scene.desc) }]),
       el('rect', { x: 0, y: 0, width: scene.width, height: scene.height, fill: '#ffffff' }),
       ...scene.items.map(node),
     ],

@@ -129,6 +129,7 @@ export function loadWorkspace(dir: string): LoadResult {
   });
 
   const templates = readTemplates(root);
+  if (templates.diagnostics.length > 0) return { ok: false, diagnostics: templates.diagnostics };
   for (const [file, bytes] of templates.inputs) inputs.set(file, bytes);
   return { ok: true, workspace: { root, config, characteristics, diagnostics: global, inputs, templates: templates.templates } };
 }

@@ -97,6 +97,19 @@ describe('templates', () => {
   });
 });
 
+describe('an unreadable workspace template', () => {
+  it('stops the build before anything is written, naming the file', () => {
+    const ws = path.join(temp, 'ws-bad-template');
+    cpSync(path.join(import.meta.dirname, '../fixtures/engine'), ws, { recursive: true });
+    mkdirSync(path.join(ws, 'templates/method.md'), { recursive: true });
+    const loaded = loadWorkspace(ws);
+    expect(loaded.ok).toBe(false);
+    if (loaded.ok) return;
+    expect(loaded.diagnostics.map((d) => [d.file, d.ruleId])).toEqual([['templates/method.md', 'template/unreadable']]);
+    expect(loaded.diagnostics[0]!.message).toMatch(/it is a folder/);
+  });
+});
+
 describe('text from the data is text in every output', () => {
   const payloads = [
     '<script>alert(1)</script>',
@@ -104,6 +117,7 @@ describe('text from the data is text in every output', () => {
     '[click](javascript:alert(1))',
     '<svg><foreignObject><div>x</div></foreignObject></svg>',
     '**bold** _em_ `code` # heading',
+    'bell\u0007 nul\u0000 escape\u001b[31m',
   ];
   const a = assess({
     chart: 'individuals',
@@ -122,6 +136,12 @@ describe('text from the data is text in every output', () => {
       expect(String(v)).not.toMatch(/javascript:/i);
     }
     expect(html).toContain('&#x3C;script>alert(1)&#x3C;/script>');
+  });
+  it('control characters reach no output (XML forbids them; they mean nothing in a label)', () => {
+    const html = toHtml({ tree: t, title: 'x', scenes: new Map(), fonts });
+    const md = toMarkdown(t);
+    for (const out of [html, md]) expect(out.replace(/[\n]/g, '')).not.toMatch(/[\u0000-\u001f\u007f]/);
+    expect(html).toContain('bell nul escape[31m');
   });
   it('Markdown: re-parsed, the payloads are text — no HTML nodes and no links but the pack’s own', () => {
     const md = unified().use(remarkParse).use(remarkGfm).parse(toMarkdown(t));

@@ -3,7 +3,7 @@
  * line, band, marker and label placed and measured. Renderers only draw
  * what this returns. Pure, given the text metrics.
  */
-import { fmt, geom } from '../../format.ts';
+import { fmt, geom, printable } from '../../format.ts';
 import { rule } from '../../signals/rule-sets.ts';
 import type { Limits } from '../../stats/family.ts';
 import type { ChartSpec, LimitKind, PanelSpec } from './spec.ts';
@@ -80,7 +80,7 @@ export function layoutChart(spec: ChartSpec, metrics: TextMetrics, options: Layo
   const width = options.width ?? 640;
   const items: Primitive[] = [];
   const n = spec.dates.length;
-  const text = (x: number, y: number, s: string, size: number, anchor: 'start' | 'middle' | 'end' = 'start', fill: Paint = INK, weight: Weight = 400) =>
+  const text = (x: number, y: number, raw: string, size: number, anchor: 'start' | 'middle' | 'end' = 'start', fill: Paint = INK, weight: Weight = 400, s = printable(raw)) =>
     // Whole-point baselines: satori snaps baselines to the pixel grid, and the PDF and inline SVG then agree with it.
     items.push({ kind: 'text', x, y: Math.round(y), text: s, size, weight, anchor, width: metrics.width(s, size, weight), fill });
 

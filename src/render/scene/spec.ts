@@ -4,7 +4,7 @@
  * turns it into a scene in points. Pure.
  */
 import type { Assessed } from '../../analyse.ts';
-import { fmt } from '../../format.ts';
+import { fmt, printable } from '../../format.ts';
 import type { IsoDate } from '../../model.ts';
 import { RULES, rule } from '../../signals/rule-sets.ts';
 import type { Signal } from '../../signals/evaluate.ts';
@@ -88,7 +88,7 @@ export function chartSpec(a: Assessed, period: { readonly from: IsoDate; readonl
   const fam = family(ch.chart);
   const n = a.samples.length;
   const kindOf = (b: Assessed['baselines'][number]): LimitKind => (b.source === 'standard' ? 'standard' : b.status);
-  const baselines = a.baselines.map((b) => ({ start: b.start, end: b.end, kind: kindOf(b), ...(b.opened ? { reason: b.opened.reason } : {}) }));
+  const baselines = a.baselines.map((b) => ({ start: b.start, end: b.end, kind: kindOf(b), ...(b.opened ? { reason: printable(b.opened.reason) } : {}) }));
   const inPeriod = a.samples.map((s, i) => (s.date >= period.from && s.date <= period.to ? i : -1)).filter((i) => i >= 0);
   const capital = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);
   const attributes = fam.standardKind === 'attributes';
@@ -133,16 +133,16 @@ export function chartSpec(a: Assessed, period: { readonly from: IsoDate; readonl
 
   return {
     id: ch.id,
-    title: ch.name,
-    subtitle: [`${fam.label} chart`, ch.unit, BETTER_WORDS[ch.better]].filter(Boolean).join(' · '),
+    title: printable(ch.name),
+    subtitle: printable([`${fam.label} chart`, ch.unit, BETTER_WORDS[ch.better]].filter(Boolean).join(' · ')),
     dates: a.samples.map((s) => s.date),
     labels: a.samples.map((s) => s.label),
     baselines,
     excluded: [...a.ledger.excluded.keys()].sort((x, y) => x - y),
-    changes: a.ledger.changes.map((c) => ({ index: c.index, reason: c.entry.reason })).sort((x, y) => x.index - y.index),
+    changes: a.ledger.changes.map((c) => ({ index: c.index, reason: printable(c.entry.reason) })).sort((x, y) => x.index - y.index),
     period: inPeriod.length ? { first: inPeriod[0]!, last: inPeriod[inPeriod.length - 1]! } : null,
     panels,
-    desc,
+    desc: printable(desc),
   };
 }
 
