@@ -95,6 +95,10 @@ describe('plumbline CLI', () => {
     const over = cli('build', FIXTURE, '--out', FIXTURE);
     expect(over.code).toBe(2);
     expect(over.err).toMatch(/is the workspace or a folder that contains it/);
+    const paper = cli('build', FIXTURE, '--out', path.join(temp, 'paper'), '--paper', 'a5');
+    expect(paper.code).toBe(2);
+    expect(paper.err).toMatch(/--paper a5 .*use a4 or letter/);
+    expect(existsSync(path.join(temp, 'paper'))).toBe(false);
     const missing = cli('check', path.join(temp, 'nowhere'));
     expect(missing.code).toBe(2);
     expect(missing.err).toMatch(/review\.yaml does not exist/);
