@@ -355,7 +355,8 @@ export function buildPackTree(input: PackInput): { tree: Root; diagnostics: Diag
   );
   const filled = fillTemplate(input.templates.pack, {
     blocks: {
-      contents: [paragraph(CONTENTS)],
+      // Built by hand, not with text(): text() strips control characters, so no data can produce this marker.
+      contents: [{ type: 'paragraph', children: [{ type: 'text', value: CONTENTS }] }],
       cover: [cover],
       decisions: decisionBlocks(input),
       overview: overviewBlocks(input),

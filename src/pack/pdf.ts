@@ -253,7 +253,8 @@ export async function toPdf(input: PdfInput): Promise<Uint8Array> {
           if (contents) {
             ensure(16);
             const target = runs.find((r) => r.link)?.link?.slice(1);
-            flow(runs, x, maxW - 40, 10.5, 15);
+            // The whole line links to its section (added below with the page number), so the words carry no link of their own.
+            flow(runs.map((r) => ({ text: r.text, bold: r.bold })), x, maxW - 40, 10.5, 15);
             if (target) contentsLines.push({ page: pages.length - 1, y, target });
             y -= 16;
             continue;

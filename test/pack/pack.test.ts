@@ -84,6 +84,11 @@ describe('index.html', () => {
     expect(h2.slice(0, 3)).toEqual(['contents', 'decisions-needed', 'overview']);
     expect(h2.slice(-2)).toEqual(['cautions', 'method']);
   });
+  it('opens with a contents list linking to every section', () => {
+    const h2 = byTag('h2').map((h) => String(h.properties.id)).filter((id) => id !== 'contents');
+    const contents = byTag('a').map((a) => String(a.properties.href)).slice(0, h2.length);
+    expect(contents).toEqual(h2.map((id) => `#${id}`));
+  });
   it('has every chart inline as SVG with a title and description, and no <img>, <script>, <link> or frames', () => {
     const svgs = byTag('svg');
     expect(svgs).toHaveLength(ids.length);
@@ -171,8 +176,11 @@ describe('pack.pdf', () => {
     // One per contents entry (2 + 12 + 2) and more from the decisions and overview tables.
     expect(links.length).toBeGreaterThanOrEqual(16 + 12);
     expect(raw).toMatch(/\/Dest \[ \d+ 0 R \/XYZ null [\d.]+ null \]/);
-    const contents = pdftotext(pdfFile, '-f', '2', '-l', '2');
-    for (const n of names) expect(contents).toContain(n);
+    // Each contents line ends with the page its section starts on.
+    const pages = pdftotext(pdfFile).split('\f');
+    const entries = [...pdftotext(pdfFile, '-layout', '-f', '2', '-l', '2').matchAll(/^\s*(\S.*?)\s{2,}(\d+)\s*$/gm)].map((m) => [m[1]!, Number(m[2])] as const);
+    expect(entries.map(([t]) => t)).toEqual(['Decisions needed', 'Overview', ...names, 'Cautions', 'Method']);
+    for (const [title, page] of entries) expect(pages[page - 1]!.trimStart().startsWith(title), `${title} on page ${page}`).toBe(true);
     expect(streams(bytes).length).toBeGreaterThan(0);
   });
   it('draws charts as vectors: no image in the file', () => {
