@@ -137,20 +137,24 @@ const END = at(2026, 11, 30);
   record('2026-09-15', 'line-stoppages', 'change', weeks[change], 'New preventive maintenance schedule for the labeller and capper', 'M. Silva');
 }
 
-// First-aid cases per 1,000 hours worked (u, weekly, safety-related): frozen
-// and stable — keep, with the cautions section.
+// First-aid cases per 1,000 hours worked (u, weekly, safety-related): new
+// machine guarding in October; the rate since is clearly lower by an exact
+// test, though counts are too small for a run rule to have fired yet —
+// re-baseline at the recorded change, with the cautions section.
 {
   const r = rng(67);
   const weeks = mondays(at(2026, 1, 5), END);
+  const guarding = weeks.indexOf('2026-10-26');
   write(
     'data/first-aid.csv',
     'date,count,exposure',
-    weeks.map((d) => {
+    weeks.map((d, i) => {
       const hours = round(3.6 + 0.5 * r.next(), 2); // thousands of hours worked
-      return [d, r.poisson(0.9 * hours), hours];
+      return [d, r.poisson((i < guarding ? 0.9 : 0.2) * hours), hours];
     }),
   );
   record('2026-05-26', 'first-aid', 'freeze', weeks[20], 'Trial limits stable over 21 weeks', 'J. Haddad');
+  record('2026-10-27', 'first-aid', 'change', weeks[guarding], 'Fixed guards fitted on the capper and labeller infeed', 'M. Silva');
 }
 
 // Defective caps in the supplier's outgoing sample of 200 (np, daily): the

@@ -7,6 +7,7 @@ import { type Diagnostic, hasErrors } from './diagnostics.ts';
 import type { Characteristic, IsoDate, LedgerEntry, ReviewConfig, Sample } from './model.ts';
 import { type Baseline, buildBaselines } from './limits/baselines.ts';
 import { type LedgerState, replayLedger } from './limits/ledger-state.ts';
+import { type Evidence, gatherEvidence } from './review/evidence.ts';
 import { type Recommendation, recommend } from './review/recommend.ts';
 import { type Signal, evaluatePanel } from './signals/evaluate.ts';
 import { rule, rulesFor } from './signals/rule-sets.ts';
@@ -29,6 +30,7 @@ export interface Assessed {
   readonly location: PanelResult;
   readonly dispersion?: PanelResult;
   readonly recommendation: Recommendation;
+  readonly evidence: Evidence;
   readonly diagnostics: readonly Diagnostic[];
 }
 
@@ -109,6 +111,20 @@ export function analyse(input: AnalyseInput): Assessment {
       }
     : undefined;
 
+  const period = config.period;
+  const evidence = gatherEvidence({
+    family: fam,
+    samples,
+    baselines,
+    ledger: replay.state,
+    locationValues: locValues,
+    signals: locSignals,
+    better: ch.better,
+    inPeriod: (i) => samples[i]!.date >= period.from && samples[i]!.date <= period.to,
+    rules: rulesFor(config.rules, panelKind),
+    refreshAfter: ch.chart === 'individuals' ? 100 : 25,
+  });
+
   const recommendation = recommend({
     characteristic: ch.id,
     better: ch.better,
@@ -122,6 +138,7 @@ export function analyse(input: AnalyseInput): Assessment {
     asOf: input.asOf,
     refreshAfter: ch.chart === 'individuals' ? 100 : 25,
     describeRule: (id) => rule(id)?.description ?? id,
+    evidence,
   });
 
   return {
@@ -134,6 +151,7 @@ export function analyse(input: AnalyseInput): Assessment {
     location,
     ...(dispersion ? { dispersion } : {}),
     recommendation,
+    evidence,
     diagnostics,
   };
 }

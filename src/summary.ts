@@ -127,14 +127,70 @@ function assessedJson(a: Assessed, period: ReviewConfig['period']) {
       ledger: a.recommendation.ledger,
       changePoint: a.recommendation.changePoint === undefined ? null : label(a.recommendation.changePoint),
     },
+    changePoint: changePointJson(a),
+    evidence: evidenceJson(a),
     capability: null,
     diagnostics: a.diagnostics.map(diagnosticJson),
   };
 }
 
+function changePointJson(a: Assessed) {
+  const c = a.evidence.changePoint;
+  if (!c) return null;
+  const label = (i: number) => a.samples[i]!.label;
+  return {
+    label: label(c.index),
+    interval: [label(c.interval[0]), label(c.interval[1])],
+    method: c.method,
+    significance: c.significance,
+    likelihoodRatio: c.lr,
+    before: c.before,
+    after: c.after,
+  };
+}
+
+function evidenceJson(a: Assessed) {
+  const e = a.evidence;
+  const label = (i: number) => a.samples[i]!.label;
+  const current = a.baselines[a.baselines.length - 1]!;
+  return {
+    changeTests: e.changeTests.map((t) => ({
+      change: label(t.index),
+      ledgerLine: t.entry.line,
+      method: t.comparison.method,
+      before: t.comparison.before,
+      after: t.comparison.after,
+      periodsBefore: t.comparison.periodsBefore,
+      periodsAfter: t.comparison.periodsAfter,
+      effect: t.comparison.effect,
+      p: t.comparison.p,
+      significant: t.significant,
+      better: t.better,
+      morePeriods: t.comparison.morePeriods,
+    })),
+    exclusions: e.exclusions.map((x) => ({ point: label(x.index), ledgerLine: x.entry.line, effect: x.effect, moves: x.moves })),
+    limitUncertainty: e.uncertainty
+      ? {
+          points: e.uncertainty.points,
+          uclSE: e.uncertainty.uclSE[current.end - 1 - current.start] ?? null,
+          lclSE: e.uncertainty.lclSE[current.end - 1 - current.start] ?? null,
+          sigmaCV: e.uncertainty.sigmaCV ?? null,
+          enoughPoints: e.uncertainty.enoughPoints ?? null,
+        }
+      : null,
+    falseAlarm: e.falseAlarm,
+    refresh: e.refresh,
+  };
+}
+
 export function buildSummary(config: ReviewConfig, assessments: readonly Assessment[], global: readonly Diagnostic[], asOf: IsoDate) {
   const actions: Record<string, number> = { keep: 0, freeze: 0, 're-baseline': 0, investigate: 0 };
-  for (const a of assessments) if (a.status === 'assessed') actions[a.recommendation.action]!++;
+  let expectedFalseAlarms = 0;
+  for (const a of assessments) {
+    if (a.status !== 'assessed') continue;
+    actions[a.recommendation.action]!++;
+    expectedFalseAlarms += a.evidence.falseAlarm?.probability ?? 0;
+  }
   return {
     format: SUMMARY_FORMAT,
     tool: TOOL,
@@ -150,6 +206,8 @@ export function buildSummary(config: ReviewConfig, assessments: readonly Assessm
       assessed: assessments.filter((a) => a.status === 'assessed').length,
       notAssessed: assessments.filter((a) => a.status !== 'assessed').length,
       actions,
+      /** Characteristics expected to signal in the period from noise alone, were every one stable. */
+      expectedFalseAlarms,
     },
     characteristics: assessments.map((a) =>
       a.status === 'assessed'
@@ -169,6 +227,8 @@ export function buildSummary(config: ReviewConfig, assessments: readonly Assessm
             baselines: [],
             signals: [],
             recommendation: null,
+            changePoint: null,
+            evidence: null,
             capability: null,
             diagnostics: a.diagnostics.map(diagnosticJson),
           },

@@ -6,7 +6,9 @@
 import type { BlockContent, Heading, Root, RootContent } from 'mdast';
 import type { Assessed, Assessment } from '../analyse.ts';
 import { type Diagnostic, formatDiagnostic, sortDiagnostics } from '../diagnostics.ts';
-import { fmt } from '../format.ts';
+import { decimalsFor, fmt, pct } from '../format.ts';
+import { describeComparison } from '../review/recommend.ts';
+import { HISTORY, RUNS } from '../signals/false-alarm.ts';
 import type { IsoDate, ReviewConfig } from '../model.ts';
 import { labelDecimals } from '../render/scene/spec.ts';
 import { RULES, RULE_SETS, rule } from '../signals/rule-sets.ts';
@@ -153,6 +155,72 @@ function signalRows(a: Assessed, inPeriod: ReadonlySet<number>): (readonly Inlin
     });
 }
 
+const num = (v: number) => fmt(v, decimalsFor(v));
+
+function evidenceBlocks(a: Assessed, rulesText: string): RootContent[] {
+  const e = a.evidence;
+  const label = (i: number) => a.samples[i]!.label;
+  const items: Inline[][] = [];
+  const cp = e.changePoint;
+  if (cp) {
+    items.push([
+      strong('Estimated change point'),
+      `: "${label(cp.index)}", level ${num(cp.before)} → ${num(cp.after)}; plausible from "${label(cp.interval[0])}" to "${label(cp.interval[1])}"; confidence ${fmt(cp.significance, 3)} that the level changed at all (permutation test, 999 seeded reorderings; likelihood ratio ${num(cp.lr)}). The chart shows the levels before and after and the plausible range.`,
+    ]);
+  }
+  for (const t of e.changeTests) {
+    const verdict = t.significant
+      ? `a significant difference${t.better === true ? ', in the better direction' : t.better === false ? ', in the worse direction' : ''}`
+      : t.comparison.morePeriods !== null && t.comparison.morePeriods > 0
+        ? `no significant difference yet; if the difference seen is real, about ${plural(t.comparison.morePeriods, 'more period')} would typically show it`
+        : 'no significant difference, and one this small would take far more data to show';
+    items.push([strong(`Recorded change at "${label(t.index)}"`), ` (ledger line ${t.entry.line}: ${t.entry.reason}): ${describeComparison(t.comparison)} — ${verdict}.`]);
+  }
+  const u = e.uncertainty;
+  const current = a.baselines[a.baselines.length - 1]!;
+  if (u) {
+    const last = current.end - 1 - current.start;
+    const d = labelDecimals(a.location.values, a.location.limits);
+    items.push([
+      strong('Uncertainty of the limits'),
+      `: they rest on ${plural(u.points, a.characteristic.chart === 'xbar-r' || a.characteristic.chart === 'xbar-s' ? 'subgroup' : 'point')}; the upper limit's standard error is ${fmt(u.uclSE[last]!, d + 1)}, so a 90% range for it is ±${fmt(1.645 * u.uclSE[last]!, d + 1)}` +
+        (u.sigmaCV !== undefined ? `; the sigma estimate's coefficient of variation is ${pct(u.sigmaCV, 1)}` : '') +
+        (u.enoughPoints !== undefined
+          ? `. Estimated limits behave like known ones only after about ${u.enoughPoints} ${a.characteristic.chart === 'individuals' ? 'values' : 'subgroups'} (Quesenberry 1993)${u.points >= u.enoughPoints ? ', which these have' : ''}.`
+          : '.') +
+        (current.status === 'trial' ? ' The chart draws the 90% range faintly around the trial limits.' : ''),
+    ]);
+  }
+  if (e.falseAlarm) {
+    items.push([
+      strong('Noise alone'),
+      `: with ${rulesText} and ${plural(e.falseAlarm.points, 'point')} of this baseline in the period, a perfectly stable process would show at least one signal with probability ${pct(e.falseAlarm.probability, 1)} (seeded simulation of ${RUNS} stable runs after ${HISTORY} points of history; ±${pct(e.falseAlarm.standardError, 1)}).`,
+    ]);
+  }
+  const blocks: RootContent[] = items.length ? [list(items)] : [paragraph('Nothing to weigh: no shift, no recorded change and no estimated limits.')];
+  if (e.exclusions.length) {
+    const moved = (x: (typeof e.exclusions)[number], which: 'center' | 'ucl' | 'lcl') => {
+      if (x.effect === 'after-basis') return 'none (after the freeze point)';
+      if (x.effect === 'no-limits') return '–';
+      const m = x.moves.find((mm) => mm.limit === which)!;
+      return `${fmt(m.sigmas, 2)}σ${m.percent !== null ? ` (${fmt(m.percent, 1)}%)` : ''}`;
+    };
+    blocks.push(
+      paragraph('What each exclusion did: how far the limits at that point would move if it were put back into the calculation, in sigmas of the plotted statistic and in percent.'),
+      table(
+        ['Point', 'Cause recorded', 'Center', 'UCL', 'LCL'],
+        e.exclusions.map((x) => [label(x.index), x.entry.reason, moved(x, 'center'), moved(x, 'ucl'), moved(x, 'lcl')]),
+        [null, null, 'right', 'right', 'right'],
+      ),
+    );
+  }
+  return blocks;
+}
+
+function rulesInWords(config: ReviewConfig): string {
+  return typeof config.rules === 'string' ? `the ${config.rules} rules` : `the rules ${config.rules.join(', ')}`;
+}
+
 function characteristicBlocks(a: Assessment, input: PackInput, diagnostics: Diagnostic[]): RootContent[] {
   const c = a.characteristic;
   const fam = family(c.chart);
@@ -183,6 +251,7 @@ function characteristicBlocks(a: Assessment, input: PackInput, diagnostics: Diag
       'ledger-lines': [],
       limits: [paragraph('None: not assessed.')],
       estimates: [],
+      evidence: [paragraph('None: not assessed.')],
       signals: [paragraph('None: not assessed.')],
       exclusions: [paragraph('None: not assessed.')],
       history: historyBlock,
@@ -206,6 +275,7 @@ function characteristicBlocks(a: Assessment, input: PackInput, diagnostics: Diag
         ]),
       ],
       estimates: estimatesText(a),
+      evidence: evidenceBlocks(a, rulesInWords(input.config)),
       signals: sigRows.length
         ? [table(['Rule', 'Panel', 'Points', 'Side', 'Persistence', 'Explained', 'In period'], sigRows)]
         : [paragraph('No rule fired on any baseline.')],
@@ -263,15 +333,23 @@ function overviewBlocks(input: PackInput): RootContent[] {
   const rows = input.assessments.map((a) => {
     const c = a.characteristic;
     const name = [link(`#${sectionId(c.id)}`, c.name)];
-    if (a.status !== 'assessed') return [name, c.chart, limitStatus(a), '–', '–', 'cannot be assessed'];
+    if (a.status !== 'assessed') return [name, c.chart, limitStatus(a), '–', '–', '–', 'cannot be assessed'];
     const inPeriod = new Set(periodIndices(a, input.config));
     const inPeriodSignals = signalsInPeriod(a, inPeriod);
     const flagged = new Set(inPeriodSignals.flatMap((s) => s.flagged.filter((i) => inPeriod.has(i))));
     const open = new Set(inPeriodSignals.filter((s) => !s.explained).flatMap((s) => s.flagged.filter((i) => inPeriod.has(i))));
     const signals = flagged.size === 0 ? 'none' : `${plural(flagged.size, 'point')} flagged${open.size === 0 ? ', all explained' : open.size < flagged.size ? `, ${open.size} unexplained` : ''}`;
-    return [name, c.chart, limitStatus(a), String(inPeriod.size), signals, actionWords(a)];
+    const noise = a.evidence.falseAlarm ? pct(a.evidence.falseAlarm.probability, 0) : '–';
+    return [name, c.chart, limitStatus(a), String(inPeriod.size), signals, noise, actionWords(a)];
   });
-  return [table(['Characteristic', 'Chart', 'Limits', 'Points in period', 'Signals in period', 'Action'], rows, [null, null, null, 'right', null, null])];
+  const expected = input.assessments.reduce((s, a) => s + (a.status === 'assessed' ? (a.evidence.falseAlarm?.probability ?? 0) : 0), 0);
+  return [
+    table(['Characteristic', 'Chart', 'Limits', 'Points in period', 'Signals in period', 'Noise alone', 'Action'], rows, [null, null, null, 'right', null, 'right', null]),
+    paragraph(
+      strong('False-alarm budget.'),
+      ` "Noise alone" is the chance that the characteristic would show at least one signal this period even if nothing had changed, given ${rulesInWords(input.config)} and its number of points in the period. Were every characteristic stable, about ${fmt(expected, 1)} of these ${input.assessments.length} would still signal from noise alone, so expect some investigations to find no cause.`,
+    ),
+  ];
 }
 
 function cautionBlocks(input: PackInput, diagnostics: Diagnostic[]): RootContent[] {

@@ -8,6 +8,10 @@ import type { Baseline } from '../limits/baselines.ts';
 import type { Mark } from '../limits/ledger-state.ts';
 import type { Signal } from '../signals/evaluate.ts';
 import type { Side } from '../signals/rule.ts';
+import { decimalsFor, fmt } from '../format.ts';
+import type { Comparison } from '../stats/compare.ts';
+import type { Limits } from '../stats/family.ts';
+import { CHANGE_CONFIDENCE, type ChangeTest, type Evidence } from './evidence.ts';
 import { ledgerLine } from './ledger-line.ts';
 
 export type Action = 'keep' | 'freeze' | 're-baseline' | 'investigate';
@@ -36,6 +40,29 @@ export interface RecommendInput {
   /** Points (or subgroups) after which a frozen baseline resting on fewer may be refreshed. */
   readonly refreshAfter: number;
   readonly describeRule: (id: string) => string;
+  readonly evidence: Evidence;
+}
+
+const TEST_NAMES: Readonly<Record<Comparison['method'], string>> = {
+  'welch-t': "Welch's t-test",
+  'exact-poisson-rates': 'exact test of two Poisson rates',
+  'fisher-exact': "Fisher's exact test",
+};
+
+/** A number for a sentence, with about four significant digits. */
+const num = (v: number) => fmt(v, decimalsFor(v));
+const pValue = (p: number) => (p < 0.0001 ? 'p < 0.0001' : `p = ${fmt(p, p < 0.01 ? 4 : 3)}`);
+
+/** "mean 10.2 → 9.1 (difference −1.1, 95 % interval −1.6 to −0.6; Welch's t-test, p = 0.0004)". */
+export function describeComparison(c: Comparison): string {
+  const level = c.method === 'welch-t' ? 'mean' : c.method === 'fisher-exact' ? 'fraction' : 'rate';
+  const [lo, hi] = c.effect.interval;
+  const effect = c.effect.kind === 'ratio' ? `rate ratio ${num(c.effect.value)}` : `difference ${num(c.effect.value)}`;
+  return `${level} ${num(c.before)} → ${num(c.after)} (${effect}, 95% interval ${num(lo)} to ${num(hi)}; ${TEST_NAMES[c.method]}, ${pValue(c.p)})`;
+}
+
+function limitsText(l: Limits): string {
+  return `center ${num(l.center)}, limits ${num(l.lcl)} to ${num(l.ucl)}`;
 }
 
 /** A recorded change explains a shift when it is no later than the first firing and at most this many points before the pattern. */
@@ -73,8 +100,29 @@ export function recommend(input: RecommendInput): Recommendation {
   const mine = input.signals.filter((s) => s.baseline === k);
   const open = mine.filter((s) => !s.explained && s.flagged.some(inPeriod));
 
+  const { evidence } = input;
+  const cpe = evidence.changePoint;
+  // The estimated change point, when it is confident and lies inside the baseline, before the signal's first firing.
+  const estimated = (s: Signal) =>
+    s.panel === 'location' && cpe && cpe.significance >= CHANGE_CONFIDENCE && cpe.index > current.start && cpe.index <= s.flagged[0]! ? cpe.index : undefined;
+  const estimateSentence = cpe
+    ? `The level changed most likely at "${label(cpe.index)}" (${num(cpe.before)} → ${num(cpe.after)}; plausible from "${label(cpe.interval[0])}" to "${label(cpe.interval[1])}"; confidence ${fmt(cpe.significance, 3)} by a permutation test).`
+    : undefined;
+  const improved: ChangeTest | undefined = evidence.changeTests.find(
+    (t) => t.significant && t.better === true && t.index > current.start && t.comparison.periodsAfter >= input.minPoints,
+  );
+  const improvement = (t: ChangeTest): Recommendation => ({
+    action: 're-baseline',
+    reasons: [
+      `The process change recorded at "${label(t.index)}" (ledger line ${t.entry.line}: ${t.entry.reason}) made a significant difference in the better direction: ${describeComparison(t.comparison)}.`,
+      `Start a new baseline at "${label(t.index)}", the recorded change point; ${plural(current.end - t.index, 'point')} would rest on new trial limits.`,
+    ],
+    ledger: [ledgerLine({ date: input.asOf, characteristic: input.characteristic, action: 'baseline', point: label(t.index), reason: `Process change: ${t.entry.reason}`, by: '' })],
+    changePoint: t.index,
+  });
+
   if (open.length > 0) {
-    const shifts: { signal: Signal; at: number; why: string; change?: LedgerEntry }[] = [];
+    const shifts: { signal: Signal; at: number; why: string; change?: LedgerEntry; estimated?: true }[] = [];
     for (const s of open) {
       if (s.persistence !== 'persistent') continue;
       const first = s.flagged[0]!;
@@ -89,15 +137,21 @@ export function recommend(input: RecommendInput): Recommendation {
           why: `The shift follows the process change recorded at "${label(change.index)}" (ledger line ${change.entry.line}: ${change.entry.reason}).`,
         });
       } else if (s.side !== null && s.side === betterSide(input.better, s.panel)) {
+        const est = estimated(s);
         shifts.push({
           signal: s,
-          at: s.points[0]!,
+          at: est ?? s.points[0]!,
+          ...(est !== undefined ? { estimated: true } : {}),
           why: `The shift is in the better direction (${s.panel === 'dispersion' ? 'less spread' : `${input.better} is better`}).`,
         });
       }
     }
     const cp = shifts.length > 0 ? Math.min(...shifts.map((x) => x.at)) : undefined;
-    const blocking = open.filter((s) => !shifts.some((x) => x.signal === s) && (cp === undefined || s.flagged[0]! < cp));
+    // After a recorded change shown to have worked, signals on the better side belong to the new level.
+    const partOfImprovement = (s: Signal) =>
+      improved !== undefined && s.flagged[0]! >= improved.index && s.side !== null && s.side === betterSide(input.better, s.panel);
+    const blocking = open.filter((s) => !shifts.some((x) => x.signal === s) && !partOfImprovement(s) && (cp === undefined || s.flagged[0]! < cp));
+    if (cp === undefined && improved && blocking.length === 0) return improvement(improved);
     const describe = (s: Signal) =>
       `${s.panel === 'dispersion' ? 'Dispersion chart: ' : ''}${input.describeRule(s.rule)} Fired at ${s.flagged.map(label).map((l) => `"${l}"`).join(', ')}` +
       ` (${s.persistence}${s.side ? `, ${s.side} the center line` : ''}).`;
@@ -112,7 +166,9 @@ export function recommend(input: RecommendInput): Recommendation {
         reasons: [
           `A persistent shift: ${describe(chosen.signal)}`,
           chosen.why,
-          `Start a new baseline at "${label(cp)}", the ${chosen.change ? 'recorded change point' : 'first point of the pattern'}; ${plural(current.end - cp, 'point')} would rest on new trial limits.`,
+          ...(estimateSentence ? [estimateSentence] : []),
+          ...evidence.changeTests.filter((t) => t.index === cp).map((t) => `Before and after the recorded change: ${describeComparison(t.comparison)}.`),
+          `Start a new baseline at "${label(cp)}", the ${chosen.change ? 'recorded change point' : chosen.estimated ? 'estimated change point' : 'first point of the pattern'}; ${plural(current.end - cp, 'point')} would rest on new trial limits.`,
         ],
         ledger: [ledgerLine({ date: input.asOf, characteristic: input.characteristic, action: 'baseline', point: label(cp), reason, by: '' })],
         changePoint: cp,
@@ -131,11 +187,29 @@ export function recommend(input: RecommendInput): Recommendation {
       reasons.push(
         'A persistent shift with no recorded process change and not in the better direction: bring the process back rather than move the limits.',
       );
+      if (estimateSentence) reasons.push(estimateSentence);
     }
     if (cp !== undefined) reasons.push(`A later shift at "${label(cp)}" may call for a new baseline once the earlier signals are explained.`);
     reasons.push('Look for the assignable cause; record what was found as a reviewed entry, or exclude the point if a cause was found and removed.');
     return { action: 'investigate', reasons, ledger: [] };
   }
+
+  if (improved) return improvement(improved);
+  const pending = evidence.changeTests
+    .filter((t) => t.index > current.start && t !== improved)
+    .map((t) => {
+      const head = `The change recorded at "${label(t.index)}" (ledger line ${t.entry.line})`;
+      if (t.significant && t.better === true) {
+        return `${head} already differs significantly in the better direction (${describeComparison(t.comparison)}), but ${plural(t.comparison.periodsAfter, 'point')} after it are fewer than the ${input.minPoints} a new baseline needs; re-baseline once there are ${input.minPoints}.`;
+      }
+      if (t.significant) return `${head} is followed by a significant difference that is not an improvement: ${describeComparison(t.comparison)}.`;
+      return (
+        `${head} shows no significant difference yet: ${describeComparison(t.comparison)}.` +
+        (t.comparison.morePeriods !== null && t.comparison.morePeriods > 0
+          ? ` If the difference seen is real, about ${plural(t.comparison.morePeriods, 'more period')} would typically show it.`
+          : ' A difference this small would take far more data to show.')
+      );
+    });
 
   const latest = current.end - 1;
   if (current.status === 'trial') {
@@ -167,7 +241,7 @@ export function recommend(input: RecommendInput): Recommendation {
           .join(', ')} with a reviewed or exclude entry.`,
       );
     }
-    return { action: 'keep', reasons, ledger: [] };
+    return { action: 'keep', reasons: [...reasons, ...pending], ledger: [] };
   }
 
   const reasons: string[] = [];
@@ -178,8 +252,8 @@ export function recommend(input: RecommendInput): Recommendation {
   }
   if (current.source === 'data' && current.basis.length < input.refreshAfter && current.usable >= input.refreshAfter) {
     reasons.push(
-      `For information: the baseline now has ${current.usable} usable points while its limits rest on ${current.basis.length}; a one-time refresh (a new freeze at the latest point) is possible if nothing has changed.`,
+      `For information: the baseline now has ${current.usable} usable points while its limits rest on ${current.basis.length}; a one-time refresh (a new freeze at the latest point) is possible if nothing has changed${evidence.refresh ? `, giving ${limitsText(evidence.refresh)}` : ''}.`,
     );
   }
-  return { action: 'keep', reasons, ledger: [] };
+  return { action: 'keep', reasons: [...reasons, ...pending], ledger: [] };
 }

@@ -11,6 +11,9 @@ import {
   BOUNDARY,
   CHANGE,
   CENTER,
+  ESTIMATE,
+  LEVEL,
+  RANGE,
   GRID,
   INK,
   MUTED,
@@ -67,6 +70,7 @@ function domainOf(p: PanelSpec): [number, number] {
   let hi = -Infinity;
   for (const v of p.values) if (v !== null) (lo = Math.min(lo, v)), (hi = Math.max(hi, v));
   for (const l of p.limits) if (l) (lo = Math.min(lo, l.lcl, l.center)), (hi = Math.max(hi, l.ucl, l.center));
+  for (const r of p.limitRanges) if (r) (lo = Math.min(lo, r.lcl[0])), (hi = Math.max(hi, r.ucl[1]));
   if (!Number.isFinite(lo)) return [0, 1];
   if (hi === lo) {
     const d = Math.abs(hi) * 0.1 || 1;
@@ -107,6 +111,21 @@ export function layoutChart(spec: ChartSpec, metrics: TextMetrics, options: Layo
             swatch: (x: number, y: number): Primitive[] => [
               { kind: 'rect', x, y: y - 4, w: 18, h: 8, fill: ZONE, opacity: 0.1 },
               { kind: 'rect', x, y: y - 2, w: 18, h: 4, fill: ZONE, opacity: 0.16 },
+            ],
+          },
+        ]
+      : []),
+    ...(spec.panels[0]!.limitRanges.some(Boolean)
+      ? [{ label: '90% range of trial limits', swatch: (x: number, y: number): Primitive[] => [{ kind: 'rect', x, y: y - 4, w: 18, h: 8, fill: RANGE, opacity: 0.08 }] }]
+      : []),
+    ...(spec.shift
+      ? [
+          { label: 'level before and after', swatch: (x: number, y: number) => [line(x, y, x + 18, y, LEVEL)] },
+          {
+            label: 'estimated change',
+            swatch: (x: number, y: number): Primitive[] => [
+              { kind: 'rect', x, y: y - 2, w: 18, h: 4, fill: ESTIMATE, opacity: 0.45 },
+              { kind: 'path', d: shapePath('triangle-up', x + 9, y - 1, 3), fill: ESTIMATE },
             ],
           },
         ]
@@ -176,6 +195,7 @@ export function layoutChart(spec: ChartSpec, metrics: TextMetrics, options: Layo
       text(plotLeft - 4, y(v) + 3, tickLabel(f, v), SMALL, 'end', MUTED);
     }
     const { limits, values } = f.spec;
+    items.push(...rangeBands(f.spec.limitRanges, x, half, clampY));
     for (const b of spec.baselines) {
       if (f.spec.zones) items.push(...zoneBands(b.start, b.end, limits, x, half, clampY));
       const level = (pick: (l: Limits) => number) => stepped(b.start, b.end, (i) => (limits[i] ? pick(limits[i]!) : null), x, half, y);
@@ -191,6 +211,14 @@ export function layoutChart(spec: ChartSpec, metrics: TextMetrics, options: Layo
       }
       const d = pathOf(runs);
       if (d) items.push({ kind: 'path', d, stroke: { paint: SERIES, width: 1.1 } });
+    }
+    if (k === 0 && spec.shift) {
+      const s = spec.shift;
+      items.push(line(x(s.start) - half, y(s.before), x(s.at) - half, y(s.before), LEVEL), line(x(s.at) - half, y(s.after), x(s.end - 1) + half, y(s.after), LEVEL));
+      const x0 = x(s.interval[0]) - half;
+      // Along the foot of the panel, clear of the baseline labels at its head.
+      items.push({ kind: 'rect', x: x0, y: f.bottom - 5, w: x(s.interval[1]) + half - x0, h: 4, fill: ESTIMATE, opacity: 0.45 });
+      items.push({ kind: 'path', d: shapePath('triangle-up', x(s.at) - half, f.bottom - 5, 3.5), fill: ESTIMATE, stroke: { paint: WHITE, width: 0.6 } });
     }
     const marked = new Map(f.spec.markers.map((m) => [m.index, m.rule]));
     values.forEach((v, i) => {
@@ -344,6 +372,36 @@ function zoneBands(
       }
       x1 = x(i) + half;
     }
+    flush();
+  }
+  return out;
+}
+
+/** Faint bands for the 90 % ranges of the upper and lower limits, merged where they stay level. */
+function rangeBands(
+  ranges: PanelSpec['limitRanges'],
+  x: (i: number) => number,
+  half: number,
+  y: (v: number) => number,
+): Primitive[] {
+  const out: Primitive[] = [];
+  for (const pick of ['ucl', 'lcl'] as const) {
+    let open: { x0: number; top: number; bottom: number; x1: number } | null = null;
+    const flush = () => {
+      if (open) out.push({ kind: 'rect', x: open.x0, y: open.top, w: open.x1 - open.x0, h: Math.max(0.5, open.bottom - open.top), fill: RANGE, opacity: 0.08 });
+      open = null;
+    };
+    ranges.forEach((r, i) => {
+      if (!r) return flush();
+      const top = y(r[pick][1]);
+      const bottom = y(r[pick][0]);
+      const cur = open as { x0: number; top: number; bottom: number; x1: number } | null;
+      if (cur && Math.abs(cur.top - top) < 0.005 && Math.abs(cur.bottom - bottom) < 0.005 && Math.abs(cur.x1 - (x(i) - half)) < 0.005) cur.x1 = x(i) + half;
+      else {
+        flush();
+        open = { x0: x(i) - half, top, bottom, x1: x(i) + half };
+      }
+    });
     flush();
   }
   return out;

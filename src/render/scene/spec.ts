@@ -27,6 +27,18 @@ export interface PanelSpec {
   readonly decimals: number;
   /** The plotted statistic is a whole count (np, c): axis ticks stay on whole numbers. */
   readonly counts: boolean;
+  /** A 90 % range around each trial limit, from the limits' own sampling error; null where none is drawn. */
+  readonly limitRanges: readonly ({ readonly ucl: readonly [number, number]; readonly lcl: readonly [number, number] } | null)[];
+}
+
+/** An estimated change of level within a baseline. */
+export interface ShiftSpec {
+  readonly start: number;
+  readonly end: number;
+  readonly at: number;
+  readonly interval: readonly [number, number];
+  readonly before: number;
+  readonly after: number;
 }
 
 export interface BaselineSpan {
@@ -50,6 +62,7 @@ export interface ChartSpec {
   /** First and last index inside the review period, or null when no point falls in it. */
   readonly period: { readonly first: number; readonly last: number } | null;
   readonly panels: readonly PanelSpec[];
+  readonly shift: ShiftSpec | null;
   readonly desc: string;
 }
 
@@ -81,6 +94,22 @@ export function labelDecimals(values: readonly (number | null)[], limits: readon
   return Math.max(0, Math.min(6, Math.ceil(-Math.log10(spread(values, limits) / 200))));
 }
 
+/** 90 % ranges (±1.645 standard errors) around the current baseline's limits while they are trial limits. */
+function limitRanges(a: Assessed): PanelSpec['limitRanges'] {
+  const current = a.baselines[a.baselines.length - 1]!;
+  const u = a.evidence.uncertainty;
+  const out: ({ ucl: [number, number]; lcl: [number, number] } | null)[] = a.samples.map(() => null);
+  if (!u || current.status !== 'trial') return out;
+  for (let i = current.start; i < current.end; i++) {
+    const l = a.location.limits[i];
+    const su = u.uclSE[i - current.start];
+    const sl = u.lclSE[i - current.start];
+    if (!l || su === undefined || sl === undefined) continue;
+    out[i] = { ucl: [l.ucl - 1.645 * su, l.ucl + 1.645 * su], lcl: [l.lcl - 1.645 * sl, l.lcl + 1.645 * sl] };
+  }
+  return out;
+}
+
 const withUnit = (what: string, unit: string) => (unit ? `${what} (${unit})` : what);
 
 export function chartSpec(a: Assessed, period: { readonly from: IsoDate; readonly to: IsoDate }): ChartSpec {
@@ -102,6 +131,7 @@ export function chartSpec(a: Assessed, period: { readonly from: IsoDate; readonl
       markers: markersOf(a.location.signals),
       decimals: labelDecimals(a.location.values, a.location.limits),
       counts: ch.chart === 'np' || ch.chart === 'c',
+      limitRanges: limitRanges(a),
     },
   ];
   if (a.dispersion && fam.dispersionLabel) {
@@ -114,6 +144,7 @@ export function chartSpec(a: Assessed, period: { readonly from: IsoDate; readonl
       markers: markersOf(a.dispersion.signals),
       decimals: labelDecimals(a.dispersion.values, a.dispersion.limits),
       counts: false,
+      limitRanges: [],
     });
   }
 
@@ -142,6 +173,16 @@ export function chartSpec(a: Assessed, period: { readonly from: IsoDate; readonl
     changes: a.ledger.changes.map((c) => ({ index: c.index, reason: printable(c.entry.reason) })).sort((x, y) => x.index - y.index),
     period: inPeriod.length ? { first: inPeriod[0]!, last: inPeriod[inPeriod.length - 1]! } : null,
     panels,
+    shift: a.evidence.changePoint
+      ? {
+          start: current.start,
+          end: current.end,
+          at: a.evidence.changePoint.index,
+          interval: a.evidence.changePoint.interval,
+          before: a.evidence.changePoint.before,
+          after: a.evidence.changePoint.after,
+        }
+      : null,
     desc: printable(desc),
   };
 }

@@ -34,6 +34,13 @@ export function centerStroke(kind: LimitKind): Stroke {
 }
 
 export const BOUNDARY: Stroke = { paint: MUTED, width: 0.8, dash: [2, 2] };
+/** Levels before and after an estimated change: grey, heavier and with longer dashes than trial limits. */
+export const LEVEL: Stroke = { paint: MUTED, width: 1.6, dash: [9, 3] };
+/** The plausible range of an estimated change point. */
+export const ESTIMATE: Paint = MUTED;
+/** The 90 % range of trial limits. */
+export const RANGE: Paint = '#1f1f1f';
+
 /** A recorded process change: a finer dot than a baseline boundary, in the palette's orange. */
 export const CHANGE: Stroke = { paint: '#e69f00', width: 1.2, dash: [1, 2.5] };
 
