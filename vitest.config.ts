@@ -5,6 +5,7 @@ export default defineConfig({
     include: ['test/**/*.test.ts'],
     // Simulations and the whole-build tests run a few seconds each on a 2-core machine.
     testTimeout: 60_000,
+    hookTimeout: 120_000,
     env: { TZ: 'UTC' },
   },
 });

@@ -194,7 +194,7 @@ function evidenceBlocks(a: Assessed, rulesText: string): RootContent[] {
   if (e.falseAlarm) {
     items.push([
       strong('Noise alone'),
-      `: with ${rulesText} and ${plural(e.falseAlarm.points, 'point')} of this baseline in the period, a perfectly stable process would show at least one signal with probability ${pct(e.falseAlarm.probability, 1)} (seeded simulation of ${RUNS} stable runs after ${HISTORY} points of history; ±${pct(e.falseAlarm.standardError, 1)}).`,
+      `: with the rules this chart uses (from ${rulesText}) and ${plural(e.falseAlarm.points, 'point')} of this baseline in the period, a perfectly stable process would show at least one signal with probability ${pct(e.falseAlarm.probability, 1)} (seeded simulation of ${RUNS} stable runs after ${HISTORY} points of history; ±${pct(e.falseAlarm.standardError, 1)}).`,
     ]);
   }
   const blocks: RootContent[] = items.length ? [list(items)] : [paragraph('Nothing to weigh: no shift, no recorded change and no estimated limits.')];
