@@ -14,8 +14,10 @@ const shots = path.join(root, 'docs/screenshots');
 
 for (const id of ['line-stoppages', 'closure-wall']) copyFileSync(path.join(pack, `charts/${id}.png`), path.join(shots, `chart-${id}.png`));
 
-// PDF pages: the decisions page (3) and the first characteristic's page.
-for (const [page, name] of [[3, 'pdf-decisions'], [12, 'pdf-line-stoppages']]) {
+// PDF pages: where "Decisions needed" and "Line stoppages" begin (pdftotext ends each page with a form feed).
+const pages = execFileSync('pdftotext', [path.join(pack, 'pack.pdf'), '-'], { encoding: 'utf8' }).split('\f');
+const startOf = (title) => pages.findIndex((p) => p.trimStart().startsWith(title)) + 1;
+for (const [page, name] of [[startOf('Decisions needed'), 'pdf-decisions'], [startOf('Line stoppages'), 'pdf-line-stoppages']]) {
   const base = path.join(shots, name);
   execFileSync('pdftoppm', ['-r', '90', '-png', '-singlefile', '-f', String(page), '-l', String(page), path.join(pack, 'pack.pdf'), base]);
 }

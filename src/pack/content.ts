@@ -7,7 +7,7 @@ import type { BlockContent, Heading, Root, RootContent } from 'mdast';
 import type { Assessed, Assessment } from '../analyse.ts';
 import { type Diagnostic, formatDiagnostic, sortDiagnostics } from '../diagnostics.ts';
 import { decimalsFor, fmt, pct } from '../format.ts';
-import { describeComparison } from '../review/recommend.ts';
+import { confidenceText, describeComparison } from '../review/recommend.ts';
 import { HISTORY, RUNS } from '../signals/false-alarm.ts';
 import type { IsoDate, ReviewConfig } from '../model.ts';
 import { labelDecimals } from '../render/scene/spec.ts';
@@ -165,7 +165,7 @@ function evidenceBlocks(a: Assessed, rulesText: string): RootContent[] {
   if (cp) {
     items.push([
       strong('Estimated change point'),
-      `: "${label(cp.index)}", level ${num(cp.before)} → ${num(cp.after)}; plausible from "${label(cp.interval[0])}" to "${label(cp.interval[1])}"; confidence ${fmt(cp.significance, 3)} that the level changed at all (permutation test, 999 seeded reorderings; likelihood ratio ${num(cp.lr)}). The chart shows the levels before and after and the plausible range.`,
+      `: "${label(cp.index)}", level ${num(cp.before)} → ${num(cp.after)}; plausible from "${label(cp.interval[0])}" to "${label(cp.interval[1])}"; confidence ${confidenceText(cp.significance)} that the level changed at all (permutation test, 999 seeded reorderings; likelihood ratio ${num(cp.lr)}). The chart shows the levels before and after and the plausible range.`,
     ]);
   }
   for (const t of e.changeTests) {

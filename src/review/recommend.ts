@@ -51,6 +51,8 @@ const TEST_NAMES: Readonly<Record<Comparison['method'], string>> = {
 
 /** A number for a sentence, with about four significant digits. */
 const num = (v: number) => fmt(v, decimalsFor(v));
+/** 999 reorderings resolve a confidence to 0.001; all of them below reads "at least 0.999". */
+export const confidenceText = (c: number) => (c >= 0.999 ? 'at least 0.999' : fmt(c, 3));
 const pValue = (p: number) => (p < 0.0001 ? 'p < 0.0001' : `p = ${fmt(p, p < 0.01 ? 4 : 3)}`);
 
 /** "mean 10.2 → 9.1 (difference −1.1, 95 % interval −1.6 to −0.6; Welch's t-test, p = 0.0004)". */
@@ -106,7 +108,7 @@ export function recommend(input: RecommendInput): Recommendation {
   const estimated = (s: Signal) =>
     s.panel === 'location' && cpe && cpe.significance >= CHANGE_CONFIDENCE && cpe.index > current.start && cpe.index <= s.flagged[0]! ? cpe.index : undefined;
   const estimateSentence = cpe
-    ? `The level changed most likely at "${label(cpe.index)}" (${num(cpe.before)} → ${num(cpe.after)}; plausible from "${label(cpe.interval[0])}" to "${label(cpe.interval[1])}"; confidence ${fmt(cpe.significance, 3)} by a permutation test).`
+    ? `The level changed most likely at "${label(cpe.index)}" (${num(cpe.before)} → ${num(cpe.after)}; plausible from "${label(cpe.interval[0])}" to "${label(cpe.interval[1])}"; confidence ${confidenceText(cpe.significance)} by a permutation test).`
     : undefined;
   const improved: ChangeTest | undefined = evidence.changeTests.find(
     (t) => t.significant && t.better === true && t.index > current.start && t.comparison.periodsAfter >= input.minPoints,
