@@ -17,6 +17,7 @@ import { chartSpec } from './render/scene/spec.ts';
 import { createTextMetrics } from './render/scene/text-metrics.ts';
 import type { Scene } from './render/scene/types.ts';
 import { renderStandaloneSvg } from './render/svg-satori.ts';
+import { type SummaryLike, compareSummaries, previousSummarySchema } from './review/since.ts';
 import { TOOL } from './version.ts';
 import type { Workspace } from './workspace/load.ts';
 
@@ -35,6 +36,8 @@ export interface PackOptions {
   readonly png: boolean;
   /** Called as each stage finishes, for progress on long builds. */
   readonly progress?: (stage: string, done: number, total: number) => void;
+  /** The previous pack's summary.json, for the "Since the last review" section. */
+  readonly previous?: SummaryLike;
 }
 
 export const DEFAULT_OPTIONS: PackOptions = { paper: 'a4', png: false };
@@ -78,6 +81,7 @@ export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOption
     tool: TOOL,
     templates: ws.templates,
     chartFile,
+    ...(options.previous ? { since: compareSummaries(options.previous, previousSummarySchema.parse(JSON.parse(JSON.stringify(summary)))) } : {}),
   });
   const packDiagnostics = [...diagnostics, ...pack.diagnostics];
   files.set('index.md', encoder.encode(toMarkdown(pack.tree)));

@@ -4,7 +4,7 @@
  */
 import type { Assessed, Assessment } from './analyse.ts';
 import type { Diagnostic } from './diagnostics.ts';
-import type { IsoDate, ReviewConfig } from './model.ts';
+import type { IsoDate, LedgerEntry, ReviewConfig } from './model.ts';
 import type { Signal } from './signals/evaluate.ts';
 import { family } from './stats/index.ts';
 import { TOOL } from './version.ts';
@@ -129,9 +129,14 @@ function assessedJson(a: Assessed, period: ReviewConfig['period']) {
     },
     changePoint: changePointJson(a),
     evidence: evidenceJson(a),
+    history: a.ledger.history.map(historyJson),
     capability: null,
     diagnostics: a.diagnostics.map(diagnosticJson),
   };
+}
+
+function historyJson(e: LedgerEntry) {
+  return { line: e.line, date: e.date, action: e.action, point: e.point, reason: e.reason, by: e.by };
 }
 
 function changePointJson(a: Assessed) {
@@ -229,6 +234,7 @@ export function buildSummary(config: ReviewConfig, assessments: readonly Assessm
             recommendation: null,
             changePoint: null,
             evidence: null,
+            history: a.history.map(historyJson),
             capability: null,
             diagnostics: a.diagnostics.map(diagnosticJson),
           },

@@ -18,6 +18,7 @@ import type { Limits } from '../stats/family.ts';
 import { family } from '../stats/index.ts';
 import { type Inline, chartImage, code, heading, link, list, paragraph, plain, slug, strong, table } from './mdast.ts';
 import { type Templates, fillTemplate } from './template.ts';
+import type { SinceReport } from '../review/since.ts';
 
 export interface PackInput {
   readonly config: ReviewConfig;
@@ -30,6 +31,8 @@ export interface PackInput {
   readonly templates: Templates;
   /** File name of each characteristic's chart, relative to the pack. */
   readonly chartFile: (id: string) => string;
+  /** What changed since the previous pack, when one was given or found. */
+  readonly since?: SinceReport;
 }
 
 export const sectionId = (characteristicId: string) => `c-${characteristicId}`;
@@ -300,6 +303,37 @@ function characteristicBlocks(a: Assessment, input: PackInput, diagnostics: Diag
   return filled.nodes;
 }
 
+function sinceBlocks(s: SinceReport | undefined): RootContent[] {
+  if (!s) return [];
+  const to = (id: string, name: string) => link(`#${sectionId(id)}`, name);
+  const section = (title: string, items: Inline[][], none: string): RootContent[] => [
+    heading(3, undefined, title),
+    items.length ? list(items) : paragraph(none),
+  ];
+  const change = (before: number, after: number) => {
+    const pctText = Math.abs(before) > 1e-12 ? ` (${after >= before ? '+' : ''}${fmt(((after - before) / Math.abs(before)) * 100, 1)}%)` : '';
+    return `${fmt(before, decimalsFor(before))} → ${fmt(after, decimalsFor(after))}${pctText}`;
+  };
+  const limitNames = { center: 'center line', ucl: 'upper limit', lcl: 'lower limit' } as const;
+  return [
+    heading(2, 'since-the-last-review', 'Since the last review'),
+    paragraph(`Compared with the pack built for ${s.previous.asOf} (review period ${s.previous.period.from} to ${s.previous.period.to}).`),
+    ...section('Actions that changed', s.actions.map((a) => [to(a.id, a.name), `: ${a.before} → ${a.after}`]), 'No characteristic changed its action.'),
+    ...section('New signals', s.signals.map((x) => [to(x.id, x.name), `: ${rule(x.rule)?.short ?? x.rule}${x.panel === 'dispersion' ? ' (dispersion chart)' : ''} at ${x.points.map((p) => `"${p}"`).join(', ')}`]), 'No new signals.'),
+    ...section('Limits that moved', s.limits.map((m) => [to(m.id, m.name), `: ${limitNames[m.limit]} ${change(m.before, m.after)}`]), 'No limits moved.'),
+    ...section(
+      'Ledger rows added',
+      s.ledger.map((e) => [to(e.id, e.name), `: ${e.date} ${e.action}${e.point ? ` at "${e.point}"` : ''}${e.reason ? ` — ${e.reason}` : ''}${e.by ? ` (${e.by})` : ''}`]),
+      s.historyUnknown ? 'The previous pack does not record the ledger, so added rows cannot be listed.' : 'No ledger rows were added.',
+    ),
+    ...section(
+      'Characteristics added or removed',
+      [...s.added.map((c) => [to(c.id, c.name), ' added'] as Inline[]), ...s.removed.map((c) => [`${c.name} (${c.id}) removed`] as Inline[])],
+      'None added or removed.',
+    ),
+  ];
+}
+
 function decisionBlocks(input: PackInput): RootContent[] {
   const pending = input.assessments.filter((a) => a.status !== 'assessed' || a.recommendation.action !== 'keep');
   if (pending.length === 0) return [paragraph('No decisions are needed: every characteristic keeps its limits.')];
@@ -435,6 +469,7 @@ export function buildPackTree(input: PackInput): { tree: Root; diagnostics: Diag
     blocks: {
       // Built by hand, not with text(): text() strips control characters, so no data can produce this marker.
       contents: [{ type: 'paragraph', children: [{ type: 'text', value: CONTENTS }] }],
+      since: sinceBlocks(input.since),
       cover: [cover],
       decisions: decisionBlocks(input),
       overview: overviewBlocks(input),

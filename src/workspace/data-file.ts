@@ -87,7 +87,7 @@ function rowsToSamples(table: CsvTable, ch: Characteristic, diagnostics: Diagnos
       ok = false;
     } else if (date < lastDate) {
       diagnostics.push(
-        error('data/date-order', where(r.line, at(r.cells, 'date')), `Date ${date} comes after ${lastDate} (line ${lastDateLine}); rows must be in date order.`),
+        error('data/date-order', where(r.line, at(r.cells, 'date')), `Date ${date} is earlier than ${lastDate} on line ${lastDateLine}; rows must be in date order.`),
       );
       ok = false;
     } else {

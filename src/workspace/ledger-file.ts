@@ -55,7 +55,7 @@ export function readLedger(
       diagnostics.push(error('ledger/bad-date', where('date'), `Column "date" ${dp}.`));
       ok = false;
     } else if (date < lastDate) {
-      diagnostics.push(error('ledger/date-order', where('date'), `Date ${date} comes after ${lastDate} (line ${lastLine}); the ledger is kept in the order decisions were taken.`));
+      diagnostics.push(error('ledger/date-order', where('date'), `Date ${date} is earlier than ${lastDate} on line ${lastLine}; the ledger is kept in the order decisions were taken.`));
       ok = false;
     } else {
       lastDate = date;

@@ -55,7 +55,12 @@ function readText(file: string): { text?: string; bytes?: Uint8Array; problem?: 
   }
 }
 
-export function loadWorkspace(dir: string): LoadResult {
+export interface LoadOptions {
+  /** Read the ledger from this text instead of ledger.csv: how `ledger add` checks a row before appending it. */
+  readonly ledgerText?: string;
+}
+
+export function loadWorkspace(dir: string, options: LoadOptions = {}): LoadResult {
   const root = path.resolve(dir);
   const reviewPath = path.join(root, REVIEW_FILE);
   const review = readText(reviewPath);
@@ -94,7 +99,10 @@ export function loadWorkspace(dir: string): LoadResult {
   const global: Diagnostic[] = [];
   let ledger: LedgerEntry[] = [];
   const perLedger = new Map<string, Diagnostic[]>();
-  const ledgerText = readText(path.join(root, LEDGER_FILE));
+  const ledgerText =
+    options.ledgerText !== undefined
+      ? { text: options.ledgerText, bytes: new TextEncoder().encode(options.ledgerText) }
+      : readText(path.join(root, LEDGER_FILE));
   if (ledgerText.text === undefined) {
     global.push(info('ledger/none', { file: LEDGER_FILE }, `No ${LEDGER_FILE} (${ledgerText.problem}); every characteristic starts with trial limits and no decisions.`));
   } else {

@@ -1,0 +1,143 @@
+/** `check` and `build`: read the workspace, assess it, and (for build) write the pack. */
+import { existsSync, readFileSync } from 'node:fs';
+import path from 'node:path';
+import { planSummary } from '../assess.ts';
+import type { Assessment } from '../analyse.ts';
+import { type Diagnostic, hasErrors } from '../diagnostics.ts';
+import { checkOutDir, writePack } from '../pack/write.ts';
+import { type SummaryLike, previousSummarySchema } from '../review/since.ts';
+import { TOOL } from '../version.ts';
+import { isIsoDate } from '../workspace/dates.ts';
+import { loadWorkspace } from '../workspace/load.ts';
+import { EXIT, type Io, UsageError, diagnosticJson, parse, plural, printDiagnostics, workspaceArg } from './common.ts';
+import { HELP } from './help.ts';
+
+function resultJson(command: string, workspace: string, exitCode: number, diagnostics: readonly Diagnostic[], assessments: readonly Assessment[], extra: object = {}) {
+  return JSON.stringify(
+    {
+      tool: TOOL,
+      command,
+      workspace,
+      exitCode,
+      ...extra,
+      characteristics: assessments.map((a) => ({
+        id: a.characteristic.id,
+        status: a.status,
+        action: a.status === 'assessed' ? a.recommendation.action : null,
+        reasons: a.status === 'assessed' ? a.recommendation.reasons : [],
+        ledger: a.status === 'assessed' ? a.recommendation.ledger : [],
+      })),
+      diagnostics: diagnostics.map(diagnosticJson),
+    },
+    null,
+    2,
+  );
+}
+
+export function check(args: readonly string[], io: Io): number {
+  const { values, positionals } = parse(args, { quiet: { type: 'boolean', short: 'q' }, json: { type: 'boolean' } });
+  if (values.help) return io.out(HELP.check!), EXIT.ok;
+  const dir = workspaceArg(positionals, 'check');
+  const loaded = loadWorkspace(dir);
+  if (!loaded.ok) {
+    if (values.json) io.out(resultJson('check', dir, EXIT.usage, loaded.diagnostics, []));
+    else {
+      printDiagnostics(io, loaded.diagnostics, false);
+      io.err('The workspace cannot be read (review.yaml or a template); nothing else was checked.');
+    }
+    return EXIT.usage;
+  }
+  const plan = planSummary(loaded.workspace, loaded.workspace.config.period.to);
+  const code = plan.exitCode === 0 && !hasErrors(plan.diagnostics) ? EXIT.ok : EXIT.notAssessed;
+  if (values.json) return io.out(resultJson('check', dir, code, plan.diagnostics, plan.assessments)), code;
+  printDiagnostics(io, plan.diagnostics, values.quiet === true);
+  const bad = plan.assessments.filter((a) => a.status !== 'assessed').map((a) => a.characteristic.id);
+  const errors = plan.diagnostics.filter((d) => d.severity === 'error').length;
+  io.out(
+    bad.length > 0 || errors > 0
+      ? `${plural(errors, 'error')}; ${bad.length} of ${plan.assessments.length} characteristics cannot be assessed${bad.length ? `: ${bad.join(', ')}` : ''}.`
+      : `No errors; ${plan.assessments.length} characteristics can be assessed.`,
+  );
+  return code;
+}
+
+/** The previous pack's summary.json, read as untrusted input. */
+function readPrevious(dir: string, explicit: boolean): SummaryLike | undefined {
+  const file = path.join(dir, 'summary.json');
+  if (!existsSync(file)) {
+    if (explicit) throw new UsageError(`--previous ${dir} holds no summary.json; give the folder of an earlier pack`);
+    return undefined;
+  }
+  let json: unknown;
+  try {
+    json = JSON.parse(readFileSync(file, 'utf8'));
+  } catch (e) {
+    throw new UsageError(`${file} is not valid JSON (${(e as Error).message}); give the folder of an earlier pack`);
+  }
+  const parsed = previousSummarySchema.safeParse(json);
+  if (!parsed.success) {
+    if (!explicit) return undefined;
+    const issue = parsed.error.issues[0]!;
+    throw new UsageError(`${file} is not a plumbline summary (format 1): ${issue.path.join('.') || 'the top level'} ${issue.message}`);
+  }
+  return parsed.data;
+}
+
+export async function build(args: readonly string[], io: Io): Promise<number> {
+  const { values, positionals } = parse(args, {
+    out: { type: 'string', short: 'o' },
+    date: { type: 'string', short: 'd' },
+    previous: { type: 'string' },
+    paper: { type: 'string' },
+    png: { type: 'boolean' },
+    quiet: { type: 'boolean', short: 'q' },
+    json: { type: 'boolean' },
+  });
+  if (values.help) return io.out(HELP.build!), EXIT.ok;
+  const dir = workspaceArg(positionals, 'build');
+  if (typeof values.out !== 'string' || values.out === '') throw new UsageError('build needs --out <dir>, the folder the pack is written to');
+  if (typeof values.date === 'string' && !isIsoDate(values.date)) throw new UsageError(`--date ${values.date} is not a date written YYYY-MM-DD`);
+  const paper = values.paper ?? 'a4';
+  if (paper !== 'a4' && paper !== 'letter') throw new UsageError(`--paper ${String(paper)} is not a paper size this build knows; use a4 or letter`);
+  const outDir = values.out;
+  const json = values.json === true;
+  const asOf = typeof values.date === 'string' ? values.date : undefined;
+  const loaded = loadWorkspace(dir);
+  if (!loaded.ok) {
+    if (json) io.out(resultJson('build', dir, EXIT.usage, loaded.diagnostics, []));
+    else {
+      printDiagnostics(io, loaded.diagnostics, false);
+      io.err('Nothing was written: fix the problems above first.');
+    }
+    return EXIT.usage;
+  }
+  const ws = loaded.workspace;
+  checkOutDir(outDir, ws.root, [...ws.inputs.keys()]);
+  // Read the earlier pack before this build replaces it.
+  const previous = typeof values.previous === 'string' ? readPrevious(values.previous, true) : readPrevious(outDir, false);
+  const quiet = values.quiet === true || json;
+  const progress = quiet || !io.progress ? undefined : io.progress.bind(io);
+  // The renderers are loaded only when a pack is built.
+  const { planPack } = await import('../build.ts');
+  const plan = await planPack(ws, asOf ?? ws.config.period.to, {
+    paper,
+    png: values.png === true,
+    ...(previous ? { previous } : {}),
+    ...(progress ? { progress: (stage: string, done: number, total: number) => progress(`${stage} ${done}/${total}`) } : {}),
+  });
+  progress?.('');
+  writePack(outDir, plan.files);
+  if (json) return io.out(resultJson('build', dir, plan.exitCode, plan.diagnostics, plan.assessments, { out: outDir, files: [...plan.files.keys()].sort(), comparedWith: previous?.asOf ?? null })), plan.exitCode;
+  printDiagnostics(io, plan.diagnostics, quiet);
+  const counts = new Map<string, number>();
+  for (const a of plan.assessments) {
+    const key = a.status === 'assessed' ? a.recommendation.action : 'cannot be assessed';
+    counts.set(key, (counts.get(key) ?? 0) + 1);
+  }
+  const order = ['investigate', 're-baseline', 'freeze', 'keep', 'cannot be assessed'];
+  const parts = order.filter((k) => counts.has(k)).map((k) => `${counts.get(k)} ${k}`);
+  io.out(
+    `Built ${plural(plan.assessments.length, 'characteristic')} into ${outDir}: ${parts.join(', ')}.${previous ? ` Compared with the pack built for ${previous.asOf}.` : ''}`,
+  );
+  return plan.exitCode;
+}

@@ -1,0 +1,93 @@
+/**
+ * Since the last review: what changed between the previous pack's
+ * summary.json and this build's — characteristics added or removed, actions
+ * that changed, new signals, limits that moved, and ledger rows added. Pure;
+ * the previous summary is untrusted input and is read through a schema that
+ * accepts any earlier format 1 summary.
+ */
+import { z } from 'zod';
+
+const point = z.looseObject({ label: z.string(), center: z.number().nullable(), ucl: z.number().nullable(), lcl: z.number().nullable() });
+const signal = z.looseObject({ rule: z.string(), panel: z.string(), points: z.array(z.string()), flagged: z.array(z.string()) });
+const entry = z.looseObject({ date: z.string(), action: z.string(), point: z.string(), reason: z.string(), by: z.string() });
+const characteristic = z.looseObject({
+  id: z.string(),
+  name: z.string(),
+  status: z.string(),
+  points: z.array(point),
+  signals: z.array(signal),
+  recommendation: z.looseObject({ action: z.string() }).nullable(),
+  history: z.array(entry).optional(),
+});
+export const previousSummarySchema = z.looseObject({
+  format: z.literal(1),
+  asOf: z.string(),
+  period: z.looseObject({ from: z.string(), to: z.string() }),
+  characteristics: z.array(characteristic),
+});
+
+export type SummaryLike = z.infer<typeof previousSummarySchema>;
+
+export interface LimitMove {
+  readonly id: string;
+  readonly name: string;
+  readonly limit: 'center' | 'ucl' | 'lcl';
+  readonly before: number;
+  readonly after: number;
+}
+
+export interface SinceReport {
+  readonly previous: { readonly asOf: string; readonly period: { readonly from: string; readonly to: string } };
+  readonly added: readonly { id: string; name: string }[];
+  readonly removed: readonly { id: string; name: string }[];
+  readonly actions: readonly { id: string; name: string; before: string; after: string }[];
+  readonly signals: readonly { id: string; name: string; rule: string; panel: string; points: readonly string[] }[];
+  readonly limits: readonly LimitMove[];
+  readonly ledger: readonly { id: string; name: string; date: string; action: string; point: string; reason: string; by: string }[];
+  /** The previous summary carried no ledger history (built before it was recorded). */
+  readonly historyUnknown: boolean;
+}
+
+const actionOf = (c: z.infer<typeof characteristic>) => (c.status === 'assessed' ? (c.recommendation?.action ?? 'keep') : 'cannot be assessed');
+const lastLimits = (c: z.infer<typeof characteristic>) => {
+  for (let i = c.points.length - 1; i >= 0; i--) if (c.points[i]!.center !== null) return c.points[i]!;
+  return undefined;
+};
+
+export function compareSummaries(previous: SummaryLike, current: SummaryLike): SinceReport {
+  const before = new Map(previous.characteristics.map((c) => [c.id, c]));
+  const now = new Map(current.characteristics.map((c) => [c.id, c]));
+  const added = current.characteristics.filter((c) => !before.has(c.id)).map((c) => ({ id: c.id, name: c.name }));
+  const removed = previous.characteristics.filter((c) => !now.has(c.id)).map((c) => ({ id: c.id, name: c.name }));
+  const actions: SinceReport['actions'][number][] = [];
+  const signals: SinceReport['signals'][number][] = [];
+  const limits: LimitMove[] = [];
+  const ledger: SinceReport['ledger'][number][] = [];
+  let historyUnknown = false;
+  for (const c of current.characteristics) {
+    const p = before.get(c.id);
+    if (!p) continue;
+    if (actionOf(p) !== actionOf(c)) actions.push({ id: c.id, name: c.name, before: actionOf(p), after: actionOf(c) });
+    const key = (s: z.infer<typeof signal>) => `${s.rule}|${s.panel}|${s.points[0] ?? ''}`;
+    const seen = new Set(p.signals.map(key));
+    for (const s of c.signals) if (!seen.has(key(s))) signals.push({ id: c.id, name: c.name, rule: s.rule, panel: s.panel, points: s.flagged });
+    const a = lastLimits(p);
+    const b = lastLimits(c);
+    if (a && b) {
+      for (const limit of ['center', 'ucl', 'lcl'] as const) {
+        const x = a[limit]!;
+        const y = b[limit]!;
+        if (Math.abs(y - x) > 1e-9 * Math.max(1, Math.abs(x))) limits.push({ id: c.id, name: c.name, limit, before: x, after: y });
+      }
+    }
+    if (!p.history) {
+      historyUnknown = true;
+      continue;
+    }
+    const had = new Set(p.history.map((e) => `${e.date}|${e.action}|${e.point}|${e.reason}|${e.by}`));
+    for (const e of c.history ?? []) {
+      if (!had.has(`${e.date}|${e.action}|${e.point}|${e.reason}|${e.by}`)) ledger.push({ id: c.id, name: c.name, date: e.date, action: e.action, point: e.point, reason: e.reason, by: e.by });
+    }
+  }
+  return { previous: { asOf: previous.asOf, period: previous.period }, added, removed, actions, signals, limits, ledger, historyUnknown };
+}
