@@ -10,6 +10,7 @@ import { cpSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:f
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
+import { main } from '../src/cli.ts';
 import { printDiagnostics } from '../src/commands/common.ts';
 import { error } from '../src/diagnostics.ts';
 
@@ -103,6 +104,26 @@ describe('ledger accept and the rebuild that follows', () => {
     const r = cli('ledger', ws, 'accept', '--from', pack, '--only', 'fill-volume', '--by', 'R. Okafor', '--yes');
     expect(r.code).toBe(0);
     expect(readFileSync(path.join(ws, 'ledger.csv'), 'utf8')).toBe(`${before}${proposed}R. Okafor\n`);
+  });
+  it('on a terminal it shows each proposed line and appends only those answered yes', async () => {
+    const ws2 = path.join(temp, 'ask');
+    cpSync(path.join(ROOT, 'data/demo'), ws2, { recursive: true });
+    const before = readFileSync(path.join(ws2, 'ledger.csv'), 'utf8');
+    const shown: string[] = [];
+    const answers = ['y', 'n', 'n', 'n', 'n'];
+    const questions: string[] = [];
+    const code = await main(['ledger', ws2, 'accept', '--from', pack], {
+      out: (l) => shown.push(l),
+      err: (l) => shown.push(l),
+      ask: async (q) => (questions.push(q), answers[questions.length - 1] ?? 'n'),
+    });
+    expect(code).toBe(0);
+    // One question per line the build proposed (every characteristic whose action carries a ledger line).
+    const summary = JSON.parse(readFileSync(path.join(pack, 'summary.json'), 'utf8'));
+    const proposed: string[] = summary.characteristics.flatMap((c: { recommendation: { ledger: string[] } | null }) => c.recommendation?.ledger ?? []);
+    expect(questions).toHaveLength(proposed.length);
+    expect(shown.slice(0, 1)).toEqual([proposed[0]]);
+    expect(readFileSync(path.join(ws2, 'ledger.csv'), 'utf8')).toBe(`${before}${proposed[0]}\n`);
   });
   it('refuses proposals from a pack built before the ledger changed', () => {
     const r = cli('ledger', ws, 'accept', '--from', pack, '--yes');
