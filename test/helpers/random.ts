@@ -1,14 +1,8 @@
 /** A seeded generator (mulberry32) and standard normal draws (Box–Muller), so simulations repeat exactly. */
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { seeded } from '../../src/stats/random.ts';
+
+/** The core's own seeded generator: the same sequence for the same seed, so simulations repeat exactly. */
+export const mulberry32 = seeded;
 
 export function normals(seed: number): () => number {
   const u = mulberry32(seed);
