@@ -112,6 +112,8 @@ export function analyse(input: AnalyseInput): Assessment {
     : undefined;
 
   const period = config.period;
+  // A one-time refresh is offered once a frozen baseline has 100 individual values or 25 subgroups (REFERENCE §4).
+  const refreshAfter = ch.chart === 'individuals' ? 100 : 25;
   const evidence = gatherEvidence({
     family: fam,
     samples,
@@ -122,7 +124,7 @@ export function analyse(input: AnalyseInput): Assessment {
     better: ch.better,
     inPeriod: (i) => samples[i]!.date >= period.from && samples[i]!.date <= period.to,
     rules: rulesFor(config.rules, panelKind),
-    refreshAfter: ch.chart === 'individuals' ? 100 : 25,
+    refreshAfter,
   });
 
   const recommendation = recommend({
@@ -136,7 +138,7 @@ export function analyse(input: AnalyseInput): Assessment {
     minPoints: config.minPoints,
     freezeAfter: config.freezeAfter,
     asOf: input.asOf,
-    refreshAfter: ch.chart === 'individuals' ? 100 : 25,
+    refreshAfter,
     describeRule: (id) => rule(id)?.description ?? id,
     evidence,
   });
