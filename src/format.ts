@@ -40,3 +40,13 @@ export function pct(fraction: number, decimals = 2): string {
 export function printable(s: string): string {
   return s.replace(/[\t\n\r]/g, ' ').replace(/[\u0000-\u001f\u007f-\u009f]/g, '');
 }
+
+/** A value for a sentence, with about four significant digits. */
+export function fmtAuto(value: number): string {
+  return fmt(value, decimalsFor(value));
+}
+
+/** "1 point", "3 points"; `many` for irregular plurals. */
+export function plural(n: number, word: string, many = `${word}s`): string {
+  return `${n} ${n === 1 ? word : many}`;
+}

@@ -76,4 +76,4 @@ export function workspaceArg(positionals: readonly string[], command: string): s
   return positionals[0]!;
 }
 
-export const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`;
+export { plural } from '../format.ts';

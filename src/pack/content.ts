@@ -6,7 +6,7 @@
 import type { BlockContent, Heading, Root, RootContent } from 'mdast';
 import type { Assessed, Assessment } from '../analyse.ts';
 import { type Diagnostic, formatDiagnostic, sortDiagnostics } from '../diagnostics.ts';
-import { decimalsFor, fmt, pct } from '../format.ts';
+import { decimalsFor, fmt, fmtAuto, pct, plural } from '../format.ts';
 import { confidenceText, describeComparison } from '../review/recommend.ts';
 import { HISTORY, RUNS } from '../signals/false-alarm.ts';
 import type { IsoDate, ReviewConfig } from '../model.ts';
@@ -68,7 +68,6 @@ export function needsCautions(a: Assessment): boolean {
   return c.safety || c.tags.some((t) => t === 'incident' || t === 'incidents');
 }
 
-const plural = (n: number, word: string, many = `${word}s`) => `${n} ${n === 1 ? word : many}`;
 
 function limitStatus(a: Assessment): string {
   if (a.status !== 'assessed') return 'cannot be assessed';
@@ -158,7 +157,7 @@ function signalRows(a: Assessed, inPeriod: ReadonlySet<number>): (readonly Inlin
     });
 }
 
-const num = (v: number) => fmt(v, decimalsFor(v));
+const num = fmtAuto;
 
 function evidenceBlocks(a: Assessed, rulesText: string): RootContent[] {
   const e = a.evidence;

@@ -8,7 +8,7 @@ import type { Baseline } from '../limits/baselines.ts';
 import type { Mark } from '../limits/ledger-state.ts';
 import type { Signal } from '../signals/evaluate.ts';
 import type { Side } from '../signals/rule.ts';
-import { decimalsFor, fmt } from '../format.ts';
+import { fmt, fmtAuto, plural } from '../format.ts';
 import type { Comparison } from '../stats/compare.ts';
 import type { Limits } from '../stats/family.ts';
 import { CHANGE_CONFIDENCE, type ChangeTest, type Evidence } from './evidence.ts';
@@ -49,8 +49,7 @@ const TEST_NAMES: Readonly<Record<Comparison['method'], string>> = {
   'fisher-exact': "Fisher's exact test",
 };
 
-/** A number for a sentence, with about four significant digits. */
-const num = (v: number) => fmt(v, decimalsFor(v));
+const num = fmtAuto;
 /** 999 reorderings resolve a confidence to 0.001; all of them below reads "at least 0.999". */
 export const confidenceText = (c: number) => (c >= 0.999 ? 'at least 0.999' : fmt(c, 3));
 const pValue = (p: number) => (p < 0.0001 ? 'p < 0.0001' : `p = ${fmt(p, p < 0.01 ? 4 : 3)}`);
@@ -81,7 +80,6 @@ export function recommend(input: RecommendInput): Recommendation {
   const k = baselines.length - 1;
   const current = baselines[k]!;
   const label = (i: number) => samples[i]!.label;
-  const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`;
 
   if (current.end === current.start) return { action: 'keep', reasons: ['There are no points yet.'], ledger: [] };
 

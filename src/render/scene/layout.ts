@@ -338,6 +338,46 @@ function stepped(
   return pathOf(runs);
 }
 
+/**
+ * Rects for a band whose top and bottom may change point by point (`bounds`
+ * gives them in points, or null where there is none), merged across
+ * consecutive points that share them.
+ */
+function bands(
+  start: number,
+  end: number,
+  bounds: (i: number) => readonly [number, number] | null,
+  x: (i: number) => number,
+  half: number,
+  fill: Paint,
+  opacity: number,
+  minHeight = 0,
+): Primitive[] {
+  const out: Primitive[] = [];
+  let open: { x0: number; x1: number; top: number; bottom: number } | null = null;
+  const flush = () => {
+    if (open) out.push({ kind: 'rect', x: open.x0, y: open.top, w: open.x1 - open.x0, h: Math.max(minHeight, open.bottom - open.top), fill, opacity });
+    open = null;
+  };
+  for (let i = start; i < end; i++) {
+    const b = bounds(i);
+    if (!b) {
+      flush();
+      continue;
+    }
+    const [top, bottom] = b;
+    const cur = open as { x0: number; x1: number; top: number; bottom: number } | null;
+    if (cur && Math.abs(cur.top - top) <= 0.005 && Math.abs(cur.bottom - bottom) <= 0.005) cur.x1 = x(i) + half;
+    else {
+      flush();
+      open = { x0: x(i) - half, x1: x(i) + half, top, bottom };
+    }
+  }
+  flush();
+  return out;
+}
+
+/** The ±2σ band, then the ±1σ band over it, clipped to the limits. */
 function zoneBands(
   start: number,
   end: number,
@@ -346,65 +386,33 @@ function zoneBands(
   half: number,
   y: (v: number) => number,
 ): Primitive[] {
-  const out: Primitive[] = [];
-  for (const [k, opacity] of [
+  return ([
     [2, 0.1],
     [1, 0.16],
-  ] as const) {
-    let open: { x0: number; top: number; bottom: number } | null = null;
-    let x1 = 0;
-    const flush = () => {
-      if (open && x1 > open.x0) out.push({ kind: 'rect', x: open.x0, y: open.top, w: x1 - open.x0, h: open.bottom - open.top, fill: ZONE, opacity });
-      open = null;
-    };
-    for (let i = start; i < end; i++) {
-      const l = limits[i];
-      if (!l || !(l.sigma > 0)) {
-        flush();
-        continue;
-      }
-      const top = y(Math.min(l.ucl, l.center + k * l.sigma));
-      const bottom = y(Math.max(l.lcl, l.center - k * l.sigma));
-      const current = open as { x0: number; top: number; bottom: number } | null;
-      if (!current || Math.abs(current.top - top) > 0.005 || Math.abs(current.bottom - bottom) > 0.005) {
-        flush();
-        open = { x0: x(i) - half, top, bottom };
-      }
-      x1 = x(i) + half;
-    }
-    flush();
-  }
-  return out;
+  ] as const).flatMap(([k, opacity]) =>
+    bands(
+      start,
+      end,
+      (i) => {
+        const l = limits[i];
+        return l && l.sigma > 0 ? [y(Math.min(l.ucl, l.center + k * l.sigma)), y(Math.max(l.lcl, l.center - k * l.sigma))] : null;
+      },
+      x,
+      half,
+      ZONE,
+      opacity,
+    ),
+  );
 }
 
-/** Faint bands for the 90 % ranges of the upper and lower limits, merged where they stay level. */
-function rangeBands(
-  ranges: PanelSpec['limitRanges'],
-  x: (i: number) => number,
-  half: number,
-  y: (v: number) => number,
-): Primitive[] {
-  const out: Primitive[] = [];
-  for (const pick of ['ucl', 'lcl'] as const) {
-    let open: { x0: number; top: number; bottom: number; x1: number } | null = null;
-    const flush = () => {
-      if (open) out.push({ kind: 'rect', x: open.x0, y: open.top, w: open.x1 - open.x0, h: Math.max(0.5, open.bottom - open.top), fill: RANGE, opacity: 0.08 });
-      open = null;
-    };
-    ranges.forEach((r, i) => {
-      if (!r) return flush();
-      const top = y(r[pick][1]);
-      const bottom = y(r[pick][0]);
-      const cur = open as { x0: number; top: number; bottom: number; x1: number } | null;
-      if (cur && Math.abs(cur.top - top) < 0.005 && Math.abs(cur.bottom - bottom) < 0.005 && Math.abs(cur.x1 - (x(i) - half)) < 0.005) cur.x1 = x(i) + half;
-      else {
-        flush();
-        open = { x0: x(i) - half, top, bottom, x1: x(i) + half };
-      }
-    });
-    flush();
-  }
-  return out;
+/** Faint bands for the 90 % ranges of the upper and lower limits. */
+function rangeBands(ranges: PanelSpec['limitRanges'], x: (i: number) => number, half: number, y: (v: number) => number): Primitive[] {
+  return (['ucl', 'lcl'] as const).flatMap((pick) =>
+    bands(0, ranges.length, (i) => {
+      const r = ranges[i];
+      return r ? [y(r[pick][1]), y(r[pick][0])] : null;
+    }, x, half, RANGE, 0.08, 0.5),
+  );
 }
 
 function excludedMark(cx: number, cy: number, r: number): Primitive[] {
