@@ -219,6 +219,94 @@ const END = at(2026, 11, 30);
   record('2026-05-26', 'near-misses', 'freeze', weeks[20], 'Trial limits stable over 21 weeks', 'J. Haddad');
 }
 
+// Recordable injuries (safety-related): one seeded day-by-day history feeds
+// two charts. About one injury every 15 working days until walkways were
+// segregated from forklift routes in June 2026; one injury since, in late
+// November.
+//  - as a monthly incidence rate per 200,000 hours worked (u): a month holds
+//    about 1.4 injuries, so the lower limit is 0 and no single month can show
+//    the improvement; an exact test of the rates before and after the
+//    recorded change does — re-baseline;
+//  - as working days between injuries (g): the long gap ending in November
+//    lies above the upper probability limit, an improvement a c or u chart
+//    cannot signal — investigate what went right.
+{
+  const r = rng(132);
+  const days = workdays(at(2024, 1, 1), END);
+  const segregation = '2026-06-01';
+  const injured = days.filter((d) => (d < segregation ? r.next() < 1 / 15 : d === '2026-11-24'));
+  const months = [];
+  for (let y = 2024; y <= 2026; y++) for (let m = 1; m <= 12; m++) if (y < 2026 || m <= 11) months.push(`${y}-${String(m).padStart(2, '0')}-01`);
+  const monthOf = (d) => `${d.slice(0, 7)}-01`;
+  write(
+    'data/recordable-injuries.csv',
+    'date,count,exposure',
+    months.map((m) => {
+      const working = days.filter((d) => monthOf(d) === m).length;
+      const hours = Math.round(working * 8 * (226 + 12 * r.next()));
+      return [m, injured.filter((d) => monthOf(d) === m).length, hours];
+    }),
+  );
+  record('2025-09-03', 'recordable-injuries', 'freeze', months[19], 'Trial limits stable over 20 months', 'J. Haddad');
+  record('2026-06-02', 'recordable-injuries', 'change', segregation, 'Pedestrian walkways segregated from forklift routes', 'M. Silva');
+  const dayIndex = new Map(days.map((d, i) => [d, i]));
+  const gaps = injured.slice(1).map((d, i) => [d, dayIndex.get(d) - dayIndex.get(injured[i]) - 1]);
+  write('data/injury-gaps.csv', 'date,between', gaps);
+  record('2025-06-04', 'injury-gaps', 'freeze', gaps[19][0], 'Trial limits stable over 20 gaps', 'J. Haddad');
+}
+
+// Forklift near-contact events (t, one row per event, days between them):
+// about one a week since the new reporting app; frozen and stable — keep.
+{
+  const r = rng(137);
+  const events = [];
+  for (let t = at(2025, 9, 1); t <= END; t += Math.round(-6.5 * Math.log(1 - r.next())) * DAY) events.push(iso(t));
+  write('data/forklift-contacts.csv', 'date', events.map((d) => [d]));
+  record('2026-01-14', 'forklift-contacts', 'freeze', events[20], 'Trial limits stable over 20 intervals', 'J. Haddad');
+}
+
+// Vision-system rejects on line 1 (laney-p, daily, about 100,000 bottles a
+// day): with subgroups this large the day-to-day variation is far wider than
+// the binomial allows, so an ordinary p chart would flag most days. The same
+// data as a p chart shows the overdispersion check recommending laney-p.
+{
+  const r = rng(139);
+  const days = workdays(at(2026, 8, 3), END);
+  const rows = days.map((d) => {
+    const n = 90000 + Math.floor(r.next() * 30000);
+    const p = 0.0042 * Math.exp(0.18 * r.normal());
+    return [d, Math.max(0, Math.round(n * p + Math.sqrt(n * p * (1 - p)) * r.normal())), n];
+  });
+  write('data/vision-rejects.csv', 'date,defectives,inspected', rows);
+  record('2026-10-01', 'vision-rejects', 'freeze', days[43], 'Trial limits stable over 44 days (laney-p)', 'R. Okafor');
+}
+
+// Conveyor jams per 100,000 bottles (laney-u, daily): overdispersed counts on
+// a large exposure; trial limits on enough stable days — freeze.
+{
+  const r = rng(149);
+  const days = workdays(at(2026, 10, 19), END);
+  write(
+    'data/conveyor-jams.csv',
+    'date,count,exposure',
+    days.map((d) => {
+      const bottles = 380000 + Math.floor(r.next() * 60000);
+      const mean = (bottles / 100000) * 11 * Math.exp(0.2 * r.normal());
+      return [d, Math.max(0, Math.round(mean + Math.sqrt(mean) * r.normal())), bottles];
+    }),
+  );
+}
+
+// Minor chemical spills (monthly counts, chart: auto): about one every two
+// months, too few for a c chart to show an improvement, so auto draws a g
+// chart of the months between spills.
+{
+  const r = rng(151);
+  const months = [];
+  for (let y = 2024; y <= 2026; y++) for (let m = 1; m <= 12; m++) if (y < 2026 || m <= 11) months.push(`${y}-${String(m).padStart(2, '0')}-01`);
+  write('data/spills.csv', 'date,count', months.map((m) => [m, r.poisson(0.5)]));
+}
+
 ledger.sort((a, b) => (a[0] < b[0] ? -1 : a[0] > b[0] ? 1 : 0));
 write('ledger.csv', 'date,characteristic,action,point,reason,by', ledger);
 console.log(`wrote ${root}`);

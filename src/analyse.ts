@@ -3,7 +3,12 @@
  * and ledger entries: baselines and limits per point, signals on each panel,
  * and the recommendation. Pure: no files, no clock.
  */
-import { type Diagnostic, hasErrors } from './diagnostics.ts';
+import { type Diagnostic, hasErrors, info } from './diagnostics.ts';
+import { type CapabilityReport, capabilityReport } from './review/capability.ts';
+import { type ChartNotes, chartNotes } from './review/notes.ts';
+import { type RateReport, rateReport } from './review/rates.ts';
+import { medianSide } from './signals/median-line.ts';
+import { type DispersionCheck, checkDispersion } from './stats/overdispersion.ts';
 import type { Characteristic, IsoDate, LedgerEntry, ReviewConfig, Sample } from './model.ts';
 import { type Baseline, buildBaselines } from './limits/baselines.ts';
 import { type LedgerState, replayLedger } from './limits/ledger-state.ts';
@@ -31,6 +36,14 @@ export interface Assessed {
   readonly dispersion?: PanelResult;
   readonly recommendation: Recommendation;
   readonly evidence: Evidence;
+  /** Attribute charts: do the data vary more than the binomial or Poisson model allows? */
+  readonly dispersionCheck: DispersionCheck | null;
+  /** Variables charts with a specification; null where capability does not apply. */
+  readonly capability: CapabilityReport | null;
+  /** Rate charts: each point's and the baseline's rate with exact intervals. */
+  readonly rates: RateReport | null;
+  /** What a reader of this chart needs to know about how it was drawn and judged. */
+  readonly notes: ChartNotes;
   readonly diagnostics: readonly Diagnostic[];
 }
 
@@ -101,7 +114,23 @@ export function analyse(input: AnalyseInput): Assessment {
   // either explains it; ranges and SDs of subgroups belong to their own point.
   const dispersionExplained = ch.chart === 'individuals' ? (i: number) => explained(i) || (i > 0 && explained(i - 1)) : explained;
   const panelKind = fam.standardKind === 'variables' ? 'variables' : 'attributes';
-  const locSignals = evaluatePanel('location', { values: locValues, limits: locLimits }, baselines, rulesFor(config.rules, panelKind), explained);
+  // Small, skewed counts: same-side runs are judged against each point's median (src/signals/median-line.ts).
+  const runModel = fam.runModel?.bind(fam);
+  const runSides = runModel
+    ? samples.map((s, i) => {
+        const l = locLimits[i];
+        const est = baselines[baselineOf[i]!]?.limits?.estimate;
+        const m = l && est ? runModel(s, l, est) : undefined;
+        return m ? medianSide(m) : undefined;
+      })
+    : [];
+  const locSignals = evaluatePanel(
+    'location',
+    { values: locValues, limits: locLimits, ...(runModel ? { runSide: (i: number) => runSides[i] } : {}) },
+    baselines,
+    rulesFor(config.rules, panelKind),
+    explained,
+  );
   const location: PanelResult = { values: locValues, limits: locLimits, signals: locSignals };
   const dispersion: PanelResult | undefined = fam.dispersionLabel
     ? {
@@ -143,6 +172,40 @@ export function analyse(input: AnalyseInput): Assessment {
     evidence,
   });
 
+  const current = baselines[baselines.length - 1]!;
+  const usable: number[] = [];
+  for (let i = current.start; i < current.end; i++) if (!replay.state.excluded.has(i)) usable.push(i);
+  const label = (i: number) => samples[i]!.label;
+
+  // Over the points the current limits rest on, against the ordinary model.
+  const ordinary = fam.id === 'p' || fam.id === 'np' || fam.id === 'c' || fam.id === 'u';
+  const checkBasis = current.source === 'data' ? current.basis : usable;
+  const dispersionCheck =
+    ordinary && current.limits
+      ? checkDispersion(checkBasis.map((i) => { const l = locLimits[i]!; return l.sigma > 0 ? (locValues[i]! - l.center) / l.sigma : 0; }))
+      : null;
+  const capability = capabilityReport({
+    characteristic: ch,
+    family: fam,
+    samples,
+    current,
+    usable,
+    signals: [...locSignals, ...(dispersion?.signals ?? [])],
+    baselineIndex: baselines.length - 1,
+    label,
+  });
+  const rates = fam.observation === 'rate' && current.limits ? rateReport(samples, current, usable, ch.per ?? 1) : null;
+  const notes = chartNotes({
+    characteristic: ch,
+    family: fam,
+    current,
+    latest: current.end > current.start ? (locLimits[current.end - 1] ?? null) : null,
+    latestSample: current.end > current.start ? samples[current.end - 1] : undefined,
+    medianRuns: runSides.some((r, i) => r !== undefined && i >= current.start),
+    dispersionCheck,
+  });
+  if (notes.lowCounts) diagnostics.push(info('chart/low-counts', { file: ch.data, characteristic: ch.id }, notes.lowCounts));
+
   return {
     status: 'assessed',
     characteristic: ch,
@@ -154,6 +217,10 @@ export function analyse(input: AnalyseInput): Assessment {
     ...(dispersion ? { dispersion } : {}),
     recommendation,
     evidence,
+    dispersionCheck,
+    capability,
+    rates,
+    notes,
     diagnostics,
   };
 }

@@ -38,6 +38,8 @@ export interface PackOptions {
   readonly progress?: (stage: string, done: number, total: number) => void;
   /** The previous pack's summary.json, for the "Since the last review" section. */
   readonly previous?: SummaryLike;
+  /** A customer's pack: the tag it was narrowed to and the customer's name. */
+  readonly audience?: { readonly tag: string; readonly name: string | null };
 }
 
 export const DEFAULT_OPTIONS: PackOptions = { paper: 'a4', png: false };
@@ -81,6 +83,7 @@ export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOption
     tool: TOOL,
     templates: ws.templates,
     chartFile,
+    ...(options.audience ? { audience: options.audience } : {}),
     ...(options.previous ? { since: compareSummaries(options.previous, previousSummarySchema.parse(JSON.parse(JSON.stringify(summary)))) } : {}),
   });
   const packDiagnostics = [...diagnostics, ...pack.diagnostics];

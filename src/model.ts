@@ -4,11 +4,11 @@
  */
 
 /** Chart families this version computes. */
-export const CHART_IDS = ['individuals', 'xbar-r', 'xbar-s', 'p', 'np', 'c', 'u'] as const;
+export const CHART_IDS = ['individuals', 'xbar-r', 'xbar-s', 'p', 'np', 'c', 'u', 'laney-p', 'laney-u', 'g', 't'] as const;
 export type ChartId = (typeof CHART_IDS)[number];
 
-/** Families named in the design that a later version adds; review.yaml may not use them yet. */
-export const PLANNED_CHART_IDS = ['laney-p', 'laney-u', 'g', 't'] as const;
+/** What review.yaml may ask for: a family, or `auto` for counts (c or u while counts are high enough, g when they are too low). */
+export type ChartChoice = ChartId | 'auto';
 
 export type Better = 'higher' | 'lower' | 'target';
 
@@ -43,6 +43,19 @@ export interface Characteristic {
   readonly standard?: Standard;
   readonly safety: boolean;
   readonly tags: readonly string[];
+  /**
+   * Rate charts (u, laney-u): the plotted rate is per this many units of
+   * exposure, e.g. 200000 hours worked for the incidence-rate convention of
+   * occupational safety statistics. Absent: per one unit.
+   */
+  readonly per?: number;
+  /** Set when review.yaml said `chart: auto`: why this family was chosen. */
+  readonly chosen?: string;
+}
+
+/** A characteristic as review.yaml gives it, before `chart: auto` is resolved against its data. */
+export interface ConfiguredCharacteristic extends Omit<Characteristic, 'chart' | 'chosen'> {
+  readonly chart: ChartChoice;
 }
 
 export type RuleSetName = 'western-electric' | 'nelson';
@@ -55,7 +68,9 @@ export interface ReviewConfig {
   readonly rules: RuleSetName | readonly string[];
   readonly minPoints: number;
   readonly freezeAfter: number;
-  readonly characteristics: readonly Characteristic[];
+  /** Names to print on a customer's pack, by tag (`build --only tag=NAME`). */
+  readonly customers: Readonly<Record<string, string>>;
+  readonly characteristics: readonly ConfiguredCharacteristic[];
 }
 
 /** One plotted point's raw observations, by the shape of data its chart reads. */
@@ -63,7 +78,11 @@ export type Observation =
   | { readonly kind: 'measurements'; readonly values: readonly number[] }
   | { readonly kind: 'proportion'; readonly defectives: number; readonly inspected: number }
   | { readonly kind: 'count'; readonly count: number }
-  | { readonly kind: 'rate'; readonly count: number; readonly exposure: number };
+  | { readonly kind: 'rate'; readonly count: number; readonly exposure: number }
+  /** g chart: opportunities (units, days, hours) between the previous event and this one. */
+  | { readonly kind: 'gap'; readonly between: number }
+  /** t chart: days from the previous event to this one. */
+  | { readonly kind: 'interval'; readonly days: number };
 
 export interface Sample {
   /** The point's name: the `label` column, or the date where there is none. */

@@ -17,7 +17,7 @@ export function reviewJsonSchema(): Json {
   const period = props.period!.properties as Record<string, Json>;
   for (const k of ['from', 'to']) period[k] = { ...period[k], pattern: '^\\d{4}-\\d{2}-\\d{2}$', description: 'A date written YYYY-MM-DD.' };
   const item = (props.characteristics!.items as Json).properties as Record<string, Json>;
-  item.chart = { type: 'string', enum: [...CHART_IDS], description: 'The chart family.' };
+  item.chart = { type: 'string', enum: [...CHART_IDS, 'auto'], description: 'The chart family, or auto for counts.' };
   return { $id: 'https://plumbline.invalid/schemas/review.schema.json', title: 'plumbline review.yaml', ...s };
 }
 

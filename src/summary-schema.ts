@@ -44,6 +44,31 @@ const point = z.looseObject({
 
 const history = z.looseObject({ line: z.number().int(), date: z.string(), action: z.enum(LEDGER_ACTIONS), point: z.string(), reason: z.string(), by: z.string() });
 
+const index = z.looseObject({ value: num, interval: z.tuple([num, num]) });
+const rate = z.looseObject({ count: num, exposure: num, rate: num, interval: z.tuple([num, num]) });
+
+/** Reported capability, the reason it is withheld, or null where it does not apply (no specification, not a variables chart). */
+const capability = z
+  .discriminatedUnion('status', [
+    z.looseObject({
+      status: z.literal('reported'),
+      points: z.number().int(),
+      values: z.number().int(),
+      mean: num,
+      sigmaWithin: num,
+      sigmaOverall: num,
+      cp: index.nullable(),
+      cpk: index,
+      pp: index.nullable(),
+      ppk: index,
+      ppm: z.looseObject({ within: num, overall: num }),
+      normality: z.looseObject({ test: z.literal('anderson-darling'), n: z.number().int(), statistic: num, adjusted: num, p: num, normal: z.boolean() }).nullable(),
+      notes: z.array(z.string()),
+    }),
+    z.looseObject({ status: z.literal('withheld'), reason: z.string() }),
+  ])
+  .nullable();
+
 const common = {
   id: z.string(),
   name: z.string(),
@@ -52,7 +77,14 @@ const common = {
   better: z.enum(['higher', 'lower', 'target']),
   safety: z.boolean(),
   tags: z.array(z.string()),
-  capability: z.null(),
+  capability,
+  per: nullableNum,
+  chartChoice: z.string().nullable(),
+  notes: z.array(z.string()),
+  overdispersion: z
+    .looseObject({ points: z.number().int(), ratio: num, chiSquare: num, df: z.number().int(), p: num, sigmaZ: num, recommend: z.boolean(), under: z.boolean() })
+    .nullable(),
+  rates: z.looseObject({ per: num, level: num, baseline: rate.nullable(), points: z.array(rate.extend({ label })) }).nullable(),
   diagnostics: z.array(diagnostic),
   history: z.array(history),
 };

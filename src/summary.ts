@@ -7,6 +7,7 @@ import type { Diagnostic } from './diagnostics.ts';
 import type { IsoDate, LedgerEntry, ReviewConfig } from './model.ts';
 import type { Signal } from './signals/evaluate.ts';
 import { family } from './stats/index.ts';
+import { rawExposure } from './review/rates.ts';
 import { TOOL } from './version.ts';
 
 export const SUMMARY_FORMAT = 1;
@@ -30,7 +31,12 @@ function sizeOf(a: Assessed, i: number): PointCounts {
     case 'count':
       return { count: o.count };
     case 'rate':
-      return { count: o.count, exposure: o.exposure };
+      // The reader divided exposure by `per`; report it as the data gave it.
+      return { count: o.count, exposure: rawExposure(o.exposure, a.characteristic.per ?? 1) };
+    case 'gap':
+      return {};
+    case 'interval':
+      return {};
   }
 }
 
@@ -130,8 +136,50 @@ function assessedJson(a: Assessed, period: ReviewConfig['period']) {
     changePoint: changePointJson(a),
     evidence: evidenceJson(a),
     history: a.ledger.history.map(historyJson),
-    capability: null,
+    capability: capabilityJson(a),
+    per: ch.per ?? null,
+    chartChoice: ch.chosen ?? null,
+    notes: a.notes.lines,
+    overdispersion: a.dispersionCheck,
+    rates: ratesJson(a, period),
     diagnostics: a.diagnostics.map(diagnosticJson),
+  };
+}
+
+function capabilityJson(a: Assessed) {
+  const c = a.capability;
+  if (!c) return null;
+  if (c.status === 'withheld') return { status: c.status, reason: c.reason };
+  const f = c.figures;
+  return {
+    status: c.status,
+    points: c.points,
+    values: f.values,
+    mean: f.mean,
+    sigmaWithin: f.sigmaWithin,
+    sigmaOverall: f.sigmaOverall,
+    cp: f.cp,
+    cpk: f.cpk,
+    pp: f.pp,
+    ppk: f.ppk,
+    ppm: { within: f.ppmWithin, overall: f.ppmOverall },
+    normality: c.normality,
+    notes: c.notes,
+  };
+}
+
+/** The baseline's rate and each review-period point's, with exact intervals. */
+function ratesJson(a: Assessed, period: ReviewConfig['period']) {
+  const r = a.rates;
+  if (!r) return null;
+  return {
+    per: r.per,
+    level: 0.95,
+    baseline: r.baseline,
+    points: a.samples
+      .map((s, i) => ({ s, i }))
+      .filter(({ s }) => s.date >= period.from && s.date <= period.to)
+      .map(({ s, i }) => ({ label: s.label, ...r.points[i]! })),
   };
 }
 
@@ -236,6 +284,11 @@ export function buildSummary(config: ReviewConfig, assessments: readonly Assessm
             evidence: null,
             history: a.history.map(historyJson),
             capability: null,
+            per: a.characteristic.per ?? null,
+            chartChoice: a.characteristic.chosen ?? null,
+            notes: [],
+            overdispersion: null,
+            rates: null,
             diagnostics: a.diagnostics.map(diagnosticJson),
           },
     ),

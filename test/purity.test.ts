@@ -27,6 +27,9 @@ const files = [
   'pack/template.ts',
   'pack/mdast.ts',
   'pack/markdown.ts',
+  'pack/figures.ts',
+  'pack/cautions.ts',
+  'workspace/select.ts',
 ];
 
 describe('the analysis core stays pure', () => {

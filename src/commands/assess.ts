@@ -9,6 +9,7 @@ import { type SummaryLike, previousSummarySchema } from '../review/since.ts';
 import { TOOL } from '../version.ts';
 import { isIsoDate } from '../workspace/dates.ts';
 import { loadWorkspace } from '../workspace/load.ts';
+import { selectByTag, tagsOf } from '../workspace/select.ts';
 import { EXIT, type Io, UsageError, diagnosticJson, parse, plural, printDiagnostics, workspaceArg } from './common.ts';
 import { HELP } from './help.ts';
 
@@ -90,10 +91,13 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
     previous: { type: 'string' },
     paper: { type: 'string' },
     png: { type: 'boolean' },
+    only: { type: 'string' },
     quiet: { type: 'boolean', short: 'q' },
     json: { type: 'boolean' },
   });
   if (values.help) return io.out(HELP.build!), EXIT.ok;
+  const only = typeof values.only === 'string' ? /^tag=(.+)$/.exec(values.only)?.[1] : undefined;
+  if (values.only !== undefined && only === undefined) throw new UsageError(`--only ${String(values.only)} is not a selection this build knows; use --only tag=NAME`);
   const dir = workspaceArg(positionals, 'build');
   if (typeof values.out !== 'string' || values.out === '') throw new UsageError('build needs --out <dir>, the folder the pack is written to');
   if (typeof values.date === 'string' && !isIsoDate(values.date)) throw new UsageError(`--date ${values.date} is not a date written YYYY-MM-DD`);
@@ -111,8 +115,18 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
     }
     return EXIT.usage;
   }
-  const ws = loaded.workspace;
-  checkOutDir(outDir, ws.root, [...ws.inputs.keys()]);
+  let ws = loaded.workspace;
+  let audience: { tag: string; name: string | null } | undefined;
+  if (only !== undefined) {
+    const selected = selectByTag(ws, only);
+    if (!selected) {
+      const tags = tagsOf(ws);
+      throw new UsageError(`no characteristic is tagged ${only}; ${tags.length ? `tags in use: ${tags.join(', ')}` : 'no characteristic has tags'}`);
+    }
+    ws = selected.workspace;
+    audience = { tag: only, name: selected.name };
+  }
+  checkOutDir(outDir, ws.root, [...loaded.workspace.inputs.keys()]);
   // Read the earlier pack before this build replaces it.
   const previous = typeof values.previous === 'string' ? readPrevious(values.previous, true) : readPrevious(outDir, false);
   const quiet = values.quiet === true || json;
@@ -123,6 +137,7 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
     paper,
     png: values.png === true,
     ...(previous ? { previous } : {}),
+    ...(audience ? { audience } : {}),
     ...(progress ? { progress: (stage: string, done: number, total: number) => progress(`${stage} ${done}/${total}`) } : {}),
   });
   progress?.('');
@@ -137,7 +152,7 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
   const order = ['investigate', 're-baseline', 'freeze', 'keep', 'cannot be assessed'];
   const parts = order.filter((k) => counts.has(k)).map((k) => `${counts.get(k)} ${k}`);
   io.out(
-    `Built ${plural(plan.assessments.length, 'characteristic')} into ${outDir}: ${parts.join(', ')}.${previous ? ` Compared with the pack built for ${previous.asOf}.` : ''}`,
+    `Built ${plural(plan.assessments.length, 'characteristic')}${audience ? ` tagged ${audience.tag}${audience.name ? ` (for ${audience.name})` : ''}` : ''} into ${outDir}: ${parts.join(', ')}.${previous ? ` Compared with the pack built for ${previous.asOf}.` : ''}`,
   );
   return plan.exitCode;
 }

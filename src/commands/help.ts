@@ -38,7 +38,7 @@ Options:
   -h, --help    show this help
 
 Exit status: 0 no errors, 1 a characteristic has errors, 2 review.yaml is unusable.`,
-  build: `Usage: plumbline build <workspace> --out <dir> [--date YYYY-MM-DD] [--previous <pack>] [--paper a4|letter] [--png] [--quiet] [--json]
+  build: `Usage: plumbline build <workspace> --out <dir> [--date YYYY-MM-DD] [--previous <pack>] [--paper a4|letter] [--png] [--only tag=NAME] [--quiet] [--json]
 
 Assesses every characteristic (limits, signals, a recommendation) and writes
 the review pack to <dir>: index.md with charts/*.svg, index.html, pack.pdf,
@@ -51,6 +51,8 @@ Options:
       --previous <pack>   an earlier pack to compare with ("Since the last review"); by default the pack already in --out
       --paper <size>      PDF paper size, a4 (default) or letter
       --png               also write charts/*.png (twice the chart size, for slides and e-mail)
+      --only tag=NAME     a customer's pack: only the characteristics tagged NAME, with the
+                          customer's name from review.yaml customers on the cover
   -q, --quiet             print errors and the one-line result only
       --json              print the result as JSON on stdout
   -h, --help              show this help

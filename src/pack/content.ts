@@ -19,6 +19,8 @@ import { family } from '../stats/index.ts';
 import { type Inline, chartImage, code, heading, link, list, paragraph, plain, slug, strong, table } from './mdast.ts';
 import { type Templates, fillTemplate } from './template.ts';
 import type { SinceReport } from '../review/since.ts';
+import { capabilityBlocks, keyFigure, notesBlocks, rateBlocks } from './figures.ts';
+import { chartCautionBlocks } from './cautions.ts';
 
 export interface PackInput {
   readonly config: ReviewConfig;
@@ -33,6 +35,8 @@ export interface PackInput {
   readonly chartFile: (id: string) => string;
   /** What changed since the previous pack, when one was given or found. */
   readonly since?: SinceReport;
+  /** A customer's pack (`build --only tag=NAME`): the tag and the name to print, from review.yaml `customers`. */
+  readonly audience?: { readonly tag: string; readonly name: string | null };
 }
 
 export const sectionId = (characteristicId: string) => `c-${characteristicId}`;
@@ -60,6 +64,15 @@ const ESTIMATE_WORDS: Readonly<Record<string, string>> = {
   pBar: 'mean fraction nonconforming',
   cBar: 'mean count',
   uBar: 'mean count per unit',
+  sigmaZ: 'Laney sigma-z',
+  gBar: 'mean gap',
+  pHat: 'event probability p̂',
+  median: 'median gap',
+  ucl3Sigma: '3-sigma upper limit (for comparison)',
+  meanDays: 'mean days between events',
+  yBar: 'mean of t^(1/3.6)',
+  mrBarY: 'mean moving range of t^(1/3.6)',
+  sigmaY: 'sigma of t^(1/3.6)',
 };
 
 /** Safety-related or incident-count characteristics bring the cautions section (DESIGN.md, "Cautions"). */
@@ -258,6 +271,9 @@ function characteristicBlocks(a: Assessment, input: PackInput, diagnostics: Diag
       exclusions: [paragraph('None: not assessed.')],
       history: historyBlock,
       issues,
+      notes: [],
+      capability: [],
+      rates: [],
     };
     strings = { name: c.name, id: c.id, action: 'cannot be assessed' };
   } else {
@@ -291,6 +307,9 @@ function characteristicBlocks(a: Assessment, input: PackInput, diagnostics: Diag
         : [paragraph('No points are excluded.')],
       history: historyBlock,
       issues,
+      notes: notesBlocks(a),
+      capability: capabilityBlocks(a),
+      rates: rateBlocks(a, inPeriod),
     };
     strings = { name: c.name, id: c.id, action: actionWords(a) };
   }
@@ -366,18 +385,18 @@ function overviewBlocks(input: PackInput): RootContent[] {
   const rows = input.assessments.map((a) => {
     const c = a.characteristic;
     const name = [link(`#${sectionId(c.id)}`, c.name)];
-    if (a.status !== 'assessed') return [name, c.chart, limitStatus(a), '–', '–', '–', 'cannot be assessed'];
+    if (a.status !== 'assessed') return [name, c.chart, limitStatus(a), '–', '–', '–', '–', 'cannot be assessed'];
     const inPeriod = new Set(periodIndices(a, input.config));
     const inPeriodSignals = signalsInPeriod(a, inPeriod);
     const flagged = new Set(inPeriodSignals.flatMap((s) => s.flagged.filter((i) => inPeriod.has(i))));
     const open = new Set(inPeriodSignals.filter((s) => !s.explained).flatMap((s) => s.flagged.filter((i) => inPeriod.has(i))));
     const signals = flagged.size === 0 ? 'none' : `${plural(flagged.size, 'point')} flagged${open.size === 0 ? ', all explained' : open.size < flagged.size ? `, ${open.size} unexplained` : ''}`;
     const noise = a.evidence.falseAlarm ? pct(a.evidence.falseAlarm.probability, 0) : '–';
-    return [name, c.chart, limitStatus(a), String(inPeriod.size), signals, noise, actionWords(a)];
+    return [name, c.chart, limitStatus(a), String(inPeriod.size), signals, noise, keyFigure(a), actionWords(a)];
   });
   const expected = input.assessments.reduce((s, a) => s + (a.status === 'assessed' ? (a.evidence.falseAlarm?.probability ?? 0) : 0), 0);
   return [
-    table(['Characteristic', 'Chart', 'Limits', 'Points in period', 'Signals in period', 'Noise alone', 'Action'], rows, [null, null, null, 'right', null, 'right', null]),
+    table(['Characteristic', 'Chart', 'Limits', 'Points in period', 'Signals in period', 'Noise alone', 'Key figure', 'Action'], rows, [null, null, null, 'right', null, 'right', null, null]),
     paragraph(
       strong('False-alarm budget.'),
       ` "Noise alone" is the chance that the characteristic would show at least one signal this period even if nothing had changed, given ${rulesInWords(input.config)} and its number of points in the period. Were every characteristic stable, about ${fmt(expected, 1)} of these ${input.assessments.length} would still signal from noise alone, so expect some investigations to find no cause.`,
@@ -389,7 +408,10 @@ function cautionBlocks(input: PackInput, diagnostics: Diagnostic[]): RootContent
   const flagged = input.assessments.filter(needsCautions);
   if (flagged.length === 0) return [];
   const filled = fillTemplate(input.templates.cautions, {
-    blocks: { 'safety-characteristics': [list(flagged.map((a) => [link(`#${sectionId(a.characteristic.id)}`, a.characteristic.name)]))] },
+    blocks: {
+      'safety-characteristics': [list(flagged.map((a) => [link(`#${sectionId(a.characteristic.id)}`, a.characteristic.name)]))],
+      'chart-cautions': chartCautionBlocks(flagged),
+    },
     strings: {},
   });
   diagnostics.push(...filled.diagnostics);
@@ -451,9 +473,11 @@ export function buildPackTree(input: PackInput): { tree: Root; diagnostics: Diag
     counts.set(key, (counts.get(key) ?? 0) + 1);
   }
   const actionOrder = ['investigate', 're-baseline', 'freeze', 'keep', 'cannot be assessed'];
+  const audience = input.audience;
   const cover = table(
     ['Review', ''],
     [
+      ...(audience ? [['Prepared for', audience.name ?? `characteristics tagged ${audience.tag}`], ['Contents', `only the characteristics tagged ${audience.tag}`]] : []),
       ['Organisation', config.organisation || '–'],
       ['Review period', `${config.period.from} to ${config.period.to}`],
       ['Built for', input.asOf],

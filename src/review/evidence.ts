@@ -14,6 +14,7 @@ import type { Rule } from '../signals/rule.ts';
 import { type ChangeSeries, estimateChangePoint } from '../stats/change-point.ts';
 import { type Comparison, SIGNIFICANCE, poissonRates, proportions, welch } from '../stats/compare.ts';
 import type { ChartFamily, Limits } from '../stats/family.ts';
+import { GAP_CHARTS } from '../stats/index.ts';
 import { type LimitUncertainty, limitUncertainty } from '../stats/limit-uncertainty.ts';
 
 /** The estimate is acted on (it moves the proposed baseline) only at or above this confidence (REFERENCE §5). */
@@ -82,8 +83,20 @@ export interface EvidenceInput {
   readonly refreshAfter: number;
 }
 
+/**
+ * Gap charts (g, t) are compared as event rates: each point is one event over
+ * its gap's exposure — between + 1 opportunities for g (the geometric
+ * likelihood, REFERENCE §5.4), the days for t, with a same-day event counted
+ * as half a day since dates resolve whole days.
+ */
+function gapExposure(s: Sample): number {
+  const o = s.observation;
+  return o.kind === 'gap' ? o.between + 1 : o.kind === 'interval' ? Math.max(o.days, 0.5) : 1;
+}
+
 function seriesOf(fam: ChartFamily, samples: readonly Sample[], values: readonly number[], indices: readonly number[]): ChangeSeries {
   if (fam.standardKind === 'variables') return { kind: 'normal', values: indices.map((i) => values[i]!) };
+  if (GAP_CHARTS.has(fam.id)) return { kind: 'poisson', counts: indices.map(() => 1), exposures: indices.map((i) => gapExposure(samples[i]!)) };
   const obs = indices.map((i) => samples[i]!.observation);
   if (fam.observation === 'proportion') {
     return {
@@ -144,11 +157,13 @@ export function gatherEvidence(input: EvidenceInput): Evidence {
         fam.id === 'np'
           ? idx.reduce((t, i) => t + (samples[i]!.observation.kind === 'proportion' ? (samples[i]!.observation as { inspected: number }).inspected : 0), 0) / idx.length
           : 1;
+      // Gap charts were estimated as event rates; give their levels as mean gaps.
+      const level = (v: number) => (fam.id === 'g' ? 1 / v - 1 : fam.id === 't' ? 1 / v : v * scale);
       changePoint = {
         index: idx[est.at]!,
         interval: [idx[est.interval[0]]!, idx[est.interval[1]]!],
-        before: est.before * scale,
-        after: est.after * scale,
+        before: level(est.before),
+        after: level(est.after),
         significance: est.significance,
         lr: est.lr,
         method: est.method,
@@ -167,7 +182,9 @@ export function gatherEvidence(input: EvidenceInput): Evidence {
     const comparison = compare(seriesOf(fam, samples, input.locationValues, [...before, ...after]), before.length);
     if (!comparison) continue;
     const d = directionOf(comparison);
-    const better = input.better === 'target' || d === 0 ? null : (d > 0) === (input.better === 'higher');
+    // Gap charts are compared as event rates: a higher rate means shorter gaps.
+    const rising = GAP_CHARTS.has(fam.id) ? d < 0 : d > 0;
+    const better = input.better === 'target' || d === 0 ? null : rising === (input.better === 'higher');
     changeTests.push({ entry: c.entry, index: c.index, comparison, better, significant: comparison.p < SIGNIFICANCE });
   }
 

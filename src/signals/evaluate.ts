@@ -4,8 +4,9 @@
  * marked explained where the ledger says a cause was looked for.
  */
 import type { Limits } from '../stats/index.ts';
+import type { RunSide } from './median-line.ts';
 import type { Rule, RuleHit, RulePoint, Side } from './rule.ts';
-import { sideOf } from './rule.ts';
+import { runSideOf } from './rule.ts';
 
 export type Panel = 'location' | 'dispersion';
 export type Persistence = 'fleeting' | 'persistent';
@@ -35,16 +36,24 @@ export interface PanelSeries {
   readonly values: readonly (number | null)[];
   /** Limits per sample, null where the baseline has none yet. */
   readonly limits: readonly (Limits | null)[];
+  /** Where same-side runs are judged against a skewed count's median: each point's side of it. */
+  readonly runSide?: (index: number) => RunSide | undefined;
 }
 
 export function zScore(value: number, l: Limits): number {
-  const d = value - l.center;
+  // Limits set on a transformed scale are judged there: sigma is a sigma of y.
+  const t = l.transform;
+  const d = t ? value ** t.exponent - l.center ** t.exponent : value - l.center;
   if (l.sigma > 0) return d / l.sigma;
   return d === 0 ? 0 : d > 0 ? Infinity : -Infinity;
 }
 
-export function rulePoint(value: number, l: Limits): RulePoint {
-  return { z: zScore(value, l), beyond: value > l.ucl ? 'above' : value < l.lcl ? 'below' : null };
+export function rulePoint(value: number, l: Limits, run?: RunSide): RulePoint {
+  return {
+    z: zScore(value, l),
+    beyond: value > l.ucl ? 'above' : value < l.lcl ? 'below' : null,
+    ...(run ? { run: { side: run.side, p: run.p } } : {}),
+  };
 }
 
 /** Merge a rule's hits into episodes: a hit joins the previous one when its pattern starts no later than just after it. */
@@ -79,7 +88,7 @@ export function evaluatePanel(
       const l = series.limits[i];
       if (v === null || v === undefined || !l) continue;
       seq.push(i);
-      points.push(rulePoint(v, l));
+      points.push(rulePoint(v, l, series.runSide?.(i)));
     }
     for (const rule of rules) {
       for (const ep of episodes(rule, rule.detect(points))) {
@@ -111,6 +120,6 @@ function persistence(points: readonly RulePoint[], start: number, side: Side | n
   if (side === null) return 'fleeting';
   const tail = points.slice(start);
   if (tail.length < PERSISTENT_MIN_POINTS) return 'fleeting';
-  const onSide = tail.filter((p) => sideOf(p.z) === side).length;
+  const onSide = tail.filter((p) => runSideOf(p) === side).length;
   return onSide >= PERSISTENT_SHARE * tail.length ? 'persistent' : 'fleeting';
 }

@@ -13,6 +13,13 @@ export interface RulePoint {
   readonly z: number;
   /** Strictly above the upper or below the lower control limit (limits already truncated where they apply). */
   readonly beyond: Side | null;
+  /**
+   * Where same-side runs are judged against the median of a skewed count
+   * distribution: the point's side of that median and the chance of that
+   * side (src/signals/median-line.ts). Absent: the side of the center line,
+   * each side counting one half.
+   */
+  readonly run?: { readonly side: Side | null; readonly p: number };
 }
 
 export interface RuleHit {
@@ -39,4 +46,9 @@ export interface Rule {
 
 export function sideOf(z: number): Side | null {
   return z > 0 ? 'above' : z < 0 ? 'below' : null;
+}
+
+/** The side a same-side run counts the point on: of the median where one is given, else of the center line. */
+export function runSideOf(p: RulePoint): Side | null {
+  return p.run ? p.run.side : sideOf(p.z);
 }

@@ -23,4 +23,7 @@ export const c: ChartFamily = {
   fromStandard(samples, standard: Standard) {
     return { location: limitsAt(samples, standard.center), estimate: { cBar: standard.center } };
   },
+  runModel(s, l) {
+    return l.lcl <= 0 ? { kind: 'poisson', count: expectKind(s, 'count').count, mean: l.center } : undefined;
+  },
 };

@@ -56,7 +56,7 @@ export function studentTCdf(t: number, df: number): number {
 }
 
 /** Inverts an increasing function on [lo, hi] by bisection, to 1e-12 of the bracket. */
-function invert(f: (x: number) => number, p: number, lo: number, hi: number): number {
+export function invert(f: (x: number) => number, p: number, lo: number, hi: number): number {
   for (let i = 0; i < 200 && hi - lo > 1e-12 * Math.max(1, Math.abs(lo)); i++) {
     const mid = (lo + hi) / 2;
     if (f(mid) < p) lo = mid;
@@ -108,4 +108,84 @@ export function clopperPearson(k: number, n: number, level = 0.95): [number, num
 /** P(X = k) for the hypergeometric count of successes in a draw of `draws` from `successes` + `failures`. */
 export function hypergeometricPmf(k: number, successes: number, failures: number, draws: number): number {
   return Math.exp(lnChoose(successes, k) + lnChoose(failures, draws - k) - lnChoose(successes + failures, draws));
+}
+
+/**
+ * The regularised lower incomplete gamma P(a, x): the series for x < a + 1,
+ * the continued fraction (modified Lentz) above it (Numerical Recipes §6.2).
+ */
+export function gammaP(a: number, x: number): number {
+  if (x <= 0) return 0;
+  const front = Math.exp(a * Math.log(x) - x - lnGamma(a));
+  if (x < a + 1) {
+    let term = 1 / a;
+    let sum = term;
+    for (let n = 1; n < 1000; n++) {
+      term *= x / (a + n);
+      sum += term;
+      if (Math.abs(term) < Math.abs(sum) * 1e-16) break;
+    }
+    return Math.min(1, front * sum);
+  }
+  const tiny = 1e-300;
+  let b = x + 1 - a;
+  let c = 1 / tiny;
+  let d = 1 / b;
+  let h = d;
+  for (let i = 1; i < 1000; i++) {
+    const an = -i * (i - a);
+    b += 2;
+    d = an * d + b;
+    if (Math.abs(d) < tiny) d = tiny;
+    c = b + an / c;
+    if (Math.abs(c) < tiny) c = tiny;
+    d = 1 / d;
+    const del = d * c;
+    h *= del;
+    if (Math.abs(del - 1) < 1e-16) break;
+  }
+  return Math.max(0, 1 - front * h);
+}
+
+/** P(X ≤ x) for the chi-square distribution with `df` degrees of freedom. */
+export function chiSquareCdf(x: number, df: number): number {
+  return gammaP(df / 2, x / 2);
+}
+
+/** The lower p-quantile of the chi-square distribution. */
+export function chiSquareQuantile(p: number, df: number): number {
+  let hi = Math.max(1, df);
+  while (chiSquareCdf(hi, df) < p) hi *= 2;
+  return invert((x) => chiSquareCdf(x, df), p, 0, hi);
+}
+
+/** P(X ≤ k) for a Poisson count with the given mean (k whole, ≥ 0): 1 − P(k + 1, mean). */
+export function poissonCdf(k: number, mean: number): number {
+  if (k < 0) return 0;
+  if (mean <= 0) return 1;
+  return 1 - gammaP(k + 1, mean);
+}
+
+export function poissonPmf(k: number, mean: number): number {
+  if (k < 0) return 0;
+  if (mean <= 0) return k === 0 ? 1 : 0;
+  return Math.exp(k * Math.log(mean) - mean - lnGamma(k + 1));
+}
+
+/** P(X ≤ k) for a binomial count of n trials (k whole). */
+export function binomialCdf(k: number, n: number, p: number): number {
+  if (k < 0) return 0;
+  if (k >= n) return 1;
+  // P(X ≤ k) = I_(1−p)(n − k, k + 1).
+  return incompleteBeta(1 - p, n - k, k + 1);
+}
+
+/**
+ * Exact (Garwood 1936) interval for a Poisson rate: C events over exposure A,
+ * [χ²(α/2; 2C)/(2A), χ²(1−α/2; 2C+2)/(2A)], the lower end 0 when C = 0.
+ */
+export function poissonRateInterval(count: number, exposure: number, level = 0.95): [number, number] {
+  const a = (1 - level) / 2;
+  const lo = count === 0 ? 0 : chiSquareQuantile(a, 2 * count) / (2 * exposure);
+  return [lo, chiSquareQuantile(1 - a, 2 * count + 2) / (2 * exposure)];
 }

@@ -12,7 +12,23 @@ export interface Limits {
   readonly lcl: number;
   /** Sigma of the plotted statistic at this point (before truncating the limits), for zones and z-scores. */
   readonly sigma: number;
+  /**
+   * The limits were set on a transformed scale y = value^exponent (the t
+   * chart's power transformation) and carried back; `sigma` is on that scale,
+   * so z-scores are taken there.
+   */
+  readonly transform?: { readonly kind: 'power'; readonly exponent: number };
 }
+
+/**
+ * The discrete distribution a point's plotted count follows under the
+ * baseline, for the same-side run rule against the median where counts are
+ * small and skewed (see src/signals/median-line.ts).
+ */
+export type CountModel =
+  | { readonly kind: 'poisson'; readonly count: number; readonly mean: number }
+  | { readonly kind: 'binomial'; readonly count: number; readonly n: number; readonly p: number }
+  | { readonly kind: 'geometric'; readonly count: number; readonly p: number };
 
 export interface PanelValues {
   readonly location: readonly number[];
@@ -41,6 +57,12 @@ export interface ChartFamily {
   /** Limits from the samples at `basis` (indices into `samples`, in order, at least two). */
   fromData(samples: readonly Sample[], basis: readonly number[]): FamilyLimits;
   fromStandard(samples: readonly Sample[], standard: Standard): FamilyLimits;
+  /**
+   * Count families: the point's count and its distribution under these
+   * limits, where counts are small enough that the distribution is visibly
+   * skewed (the lower limit is 0); undefined elsewhere.
+   */
+  runModel?(sample: Sample, limits: Limits, estimate: Readonly<Record<string, number>>): CountModel | undefined;
 }
 
 /** center ± 3·sigma, truncated to [floor, ceiling] where the statistic cannot go further. */

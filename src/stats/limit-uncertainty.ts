@@ -35,6 +35,8 @@ export interface LimitUncertainty {
   readonly enoughPoints?: number;
 }
 
+const MODELLED: ReadonlySet<string> = new Set(['individuals', 'xbar-r', 'xbar-s', 'p', 'np', 'c', 'u']);
+
 const RHO = -0.5;
 /** Cov(|D₁|, |D₂|)/σ² for adjacent differences of independent N(0, σ²) values. */
 export const ADJACENT_MR_COVARIANCE = 2 * (2 / Math.PI) * (Math.sqrt(1 - RHO * RHO) + RHO * Math.asin(RHO) - 1);
@@ -57,7 +59,8 @@ const sizeOf = (s: Sample) => {
  * Null for a family or basis this cannot describe (standard values, fewer than two points).
  */
 export function limitUncertainty(fam: ChartFamily, samples: readonly Sample[], basis: readonly number[], limits: FamilyLimits): LimitUncertainty | null {
-  if (basis.length < 2) return null;
+  // Described here: the Shewhart families. Laney's σz, the g chart's quantiles and the t chart's transform are not.
+  if (basis.length < 2 || !MODELLED.has(fam.id)) return null;
   const at = (i: number) => samples[i]!;
   const perturbed = (dir: -1 | 1, param: 'center' | 'sigma', est: { center: number; sigma: number }, h: number) =>
     fam.fromStandard(

@@ -30,4 +30,8 @@ export const np: ChartFamily = {
   fromStandard(samples, standard: Standard) {
     return { location: limitsAt(samples, standard.center), estimate: { pBar: standard.center } };
   },
+  runModel(s, l) {
+    const o = expectKind(s, 'proportion');
+    return l.lcl <= 0 ? { kind: 'binomial', count: o.defectives, n: o.inspected, p: l.center / o.inspected } : undefined;
+  },
 };

@@ -21,6 +21,10 @@ export const p: ChartFamily = {
   fromStandard(samples, standard: Standard) {
     return { location: limitsAt(samples, standard.center), estimate: { pBar: standard.center } };
   },
+  runModel(s, l) {
+    const o = expectKind(s, 'proportion');
+    return l.lcl <= 0 ? { kind: 'binomial', count: o.defectives, n: o.inspected, p: l.center } : undefined;
+  },
 };
 
 /** p̄ = Σd / Σn over the basis: every inspected unit weighs the same (shared with the np chart). */

@@ -26,4 +26,8 @@ export const u: ChartFamily = {
   fromStandard(samples, standard: Standard) {
     return { location: limitsAt(samples, standard.center), estimate: { uBar: standard.center } };
   },
+  runModel(s, l) {
+    const o = expectKind(s, 'rate');
+    return l.lcl <= 0 ? { kind: 'poisson', count: o.count, mean: l.center * o.exposure } : undefined;
+  },
 };

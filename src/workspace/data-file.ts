@@ -4,7 +4,8 @@
  * date) forming a subgroup. Dates must not go backwards.
  */
 import { type Diagnostic, error, warning } from '../diagnostics.ts';
-import type { Characteristic, Observation, Sample } from '../model.ts';
+import type { Characteristic, ConfiguredCharacteristic, Observation, Sample } from '../model.ts';
+import { chooseCountChart } from '../review/chart-choice.ts';
 import { MAX_SUBGROUP, MIN_SUBGROUP } from '../stats/constants.ts';
 import { family } from '../stats/index.ts';
 import { type CsvTable, columnOf, readCsvTable } from './csv-table.ts';
@@ -16,20 +17,42 @@ const COLUMNS: Record<Observation['kind'], readonly string[]> = {
   proportion: ['date', 'defectives', 'inspected'],
   count: ['date', 'count'],
   rate: ['date', 'count', 'exposure'],
+  gap: ['date', 'between'],
+  // One row per event; the t chart plots the days from one event to the next.
+  interval: ['date'],
 };
 
-export function requiredColumns(ch: Characteristic): readonly string[] {
-  return COLUMNS[family(ch.chart).observation];
+export function requiredColumns(ch: ConfiguredCharacteristic): readonly string[] {
+  return ch.chart === 'auto' ? ['date', 'count'] : COLUMNS[family(ch.chart).observation];
 }
 
-export function readDataFile(text: string, ch: Characteristic): { samples: Sample[]; diagnostics: Diagnostic[] } {
+export interface DataRead {
+  readonly samples: Sample[];
+  readonly diagnostics: Diagnostic[];
+  /** The characteristic with `chart: auto` resolved. */
+  readonly characteristic: Characteristic;
+}
+
+/** `chart: auto` reads counts: with an exposure column as a u chart would, without one as a c chart would. */
+function countChart(ch: ConfiguredCharacteristic, header: readonly string[]): Characteristic {
+  const { chart: _auto, ...rest } = ch;
+  return { ...rest, chart: header.includes('exposure') ? 'u' : 'c' };
+}
+
+/** `through`: the review period's last day; `chart: auto` decides on the points up to it. */
+export function readDataFile(text: string, ch: ConfiguredCharacteristic, through?: string): DataRead {
   const file = ch.data;
   const read = readCsvTable(text, file, ch.id);
   const diagnostics = [...read.diagnostics];
-  if (!read.table) return { samples: [], diagnostics };
-  const samples = rowsToSamples(read.table, ch, diagnostics);
-  return { samples, diagnostics };
+  const asRead: Characteristic = ch.chart === 'auto' ? countChart(ch, read.table?.header ?? []) : { ...ch, chart: ch.chart };
+  if (!read.table) return { samples: [], diagnostics, characteristic: asRead };
+  const samples = rowsToSamples(read.table, asRead, diagnostics);
+  if (ch.chart !== 'auto' || hasErrorsIn(diagnostics)) return { samples, diagnostics, characteristic: asRead };
+  const chosen = chooseCountChart(asRead, samples, through);
+  return { samples: chosen.samples, diagnostics, characteristic: chosen.characteristic };
 }
+
+const hasErrorsIn = (ds: readonly Diagnostic[]) => ds.some((d) => d.severity === 'error');
 
 /** One valid data row, before rows are grouped into points. */
 interface Row {
@@ -140,14 +163,46 @@ function rowsToSamples(table: CsvTable, ch: Characteristic, diagnostics: Diagnos
       case 'rate': {
         const count = num('count', wholeCount);
         const exposure = num('exposure', (v) => (v <= 0 ? `is ${v}; exposure must be above 0` : null));
-        if (count !== undefined && exposure !== undefined) observation = { kind, count, exposure };
+        // With `per`, the area of opportunity is exposure/per, so the plotted rate is per `per` units (REFERENCE §7).
+        if (count !== undefined && exposure !== undefined) observation = { kind, count, exposure: exposure / (ch.per ?? 1) };
         break;
       }
+      case 'gap': {
+        const between = num('between', (v) => (v < 0 ? `is ${v}; the opportunities between events cannot be negative` : null));
+        if (between !== undefined) observation = { kind, between };
+        break;
+      }
+      case 'interval':
+        // Filled in below, once the previous event's date is known.
+        observation = { kind, days: 0 };
+        break;
     }
     const label = cell(r.cells, 'label') || date;
     if (ok && observation !== undefined) rows.push({ line: r.line, label, date, observation });
   }
+  if (kind === 'interval') return uniquePoints(intervals(rows, col.has('label')), ch, diagnostics);
   return kind === 'measurements' && ch.chart !== 'individuals' ? groupSubgroups(rows, ch, diagnostics) : uniquePoints(rows, ch, diagnostics);
+}
+
+const DAY_MS = 86_400_000;
+const dayNumber = (iso: string) => Date.parse(`${iso}T00:00:00Z`) / DAY_MS;
+
+/**
+ * Event rows to t-chart points: each event after the first is a point whose
+ * value is the days since the event before it. Without a label column,
+ * several events on one day are told apart as "2026-03-04 #2", "#3", …
+ */
+function intervals(rows: readonly Row[], labelled: boolean): Row[] {
+  const out: Row[] = [];
+  const onDay = new Map<string, number>();
+  rows.forEach((r, i) => {
+    const k = (onDay.get(r.date) ?? 0) + 1;
+    onDay.set(r.date, k);
+    if (i === 0) return;
+    const label = labelled || k === 1 ? r.label : `${r.date} #${k}`;
+    out.push({ ...r, label, observation: { kind: 'interval', days: dayNumber(r.date) - dayNumber(rows[i - 1]!.date) } });
+  });
+  return out;
 }
 
 function uniquePoints(rows: readonly Row[], ch: Characteristic, diagnostics: Diagnostic[]): Sample[] {

@@ -7,7 +7,7 @@
 import { readFileSync, realpathSync, statSync } from 'node:fs';
 import path from 'node:path';
 import { type Diagnostic, error, info } from '../diagnostics.ts';
-import type { Characteristic, LedgerEntry, ReviewConfig, Sample } from '../model.ts';
+import type { Characteristic, ConfiguredCharacteristic, LedgerEntry, ReviewConfig, Sample } from '../model.ts';
 import { readDataFile } from './data-file.ts';
 import { LEDGER_FILE, readLedger } from './ledger-file.ts';
 import { REVIEW_FILE, dataFieldLine, readReview } from './review-file.ts';
@@ -53,6 +53,11 @@ function readText(file: string): { text?: string; bytes?: Uint8Array; problem?: 
     const code = (e as NodeJS.ErrnoException).code;
     return { problem: code === 'ENOENT' ? 'does not exist' : code === 'EACCES' ? 'cannot be read (permission denied)' : `cannot be read (${code ?? String(e)})` };
   }
+}
+
+/** A characteristic whose data could not be read: `chart: auto` stays undecided and is shown as a c chart. */
+function unresolved(c: ConfiguredCharacteristic): Characteristic {
+  return c.chart === 'auto' ? { ...c, chart: 'c', chosen: 'chart: auto could not choose: the data could not be read.' } : { ...c, chart: c.chart };
 }
 
 export interface LoadOptions {
@@ -121,10 +126,10 @@ export function loadWorkspace(dir: string, options: LoadOptions = {}): LoadResul
     const entries = ledger.filter((e) => e.characteristic === c.id);
     if (file.text === undefined) {
       own.unshift(error('data/unreadable', { file: c.data, characteristic: c.id }, `Data file ${c.data} ${file.problem}.`));
-      return { characteristic: c, samples: [], laterLabels: new Set(), ledger: entries, diagnostics: own };
+      return { characteristic: unresolved(c), samples: [], laterLabels: new Set(), ledger: entries, diagnostics: own };
     }
     inputs.set(c.data, file.bytes!);
-    const read = readDataFile(file.text, c);
+    const read = readDataFile(file.text, c, config.period.to);
     own.unshift(...read.diagnostics);
     const inside = read.samples.filter((s) => s.date <= config.period.to);
     const later = read.samples.filter((s) => s.date > config.period.to);
@@ -133,7 +138,7 @@ export function loadWorkspace(dir: string, options: LoadOptions = {}): LoadResul
         info('data/after-period', { file: c.data, line: later[0]!.line, characteristic: c.id }, `${later.length} point${later.length === 1 ? '' : 's'} dated after the review period (${config.period.to}) ${later.length === 1 ? 'is' : 'are'} left for a later review.`),
       );
     }
-    return { characteristic: c, samples: inside, laterLabels: new Set(later.map((s) => s.label)), ledger: entries, diagnostics: own };
+    return { characteristic: read.characteristic, samples: inside, laterLabels: new Set(later.map((s) => s.label)), ledger: entries, diagnostics: own };
   });
 
   const templates = readTemplates(root);

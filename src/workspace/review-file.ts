@@ -5,7 +5,8 @@
  */
 import { LineCounter, isNode, parseDocument } from 'yaml';
 import { type Diagnostic, error } from '../diagnostics.ts';
-import type { Characteristic, ReviewConfig, Standard } from '../model.ts';
+import type { ChartChoice, ConfiguredCharacteristic, ReviewConfig, Standard } from '../model.ts';
+import { GAP_CHARTS } from '../stats/index.ts';
 import { FAMILIES } from '../stats/index.ts';
 import { reviewSchema } from './review-schema.ts';
 
@@ -77,7 +78,7 @@ export function readReview(text: string, file = REVIEW_FILE): { config?: ReviewC
   }
 
   const seen = new Map<string, number>();
-  const characteristics: Characteristic[] = [];
+  const characteristics: ConfiguredCharacteristic[] = [];
   r.characteristics.forEach((c, i) => {
     const first = seen.get(c.id);
     if (first !== undefined) {
@@ -85,7 +86,17 @@ export function readReview(text: string, file = REVIEW_FILE): { config?: ReviewC
     } else {
       seen.set(c.id, i);
     }
-    const fam = FAMILIES[c.chart as Characteristic['chart']];
+    const chart = c.chart as ChartChoice;
+    // `auto` resolves to a count family once the data is read; check its standard as a c chart's.
+    const fam = FAMILIES[chart === 'auto' ? 'c' : chart];
+    if (c.per !== undefined && chart !== 'u' && chart !== 'laney-u' && chart !== 'auto') {
+      diagnostics.push(error('review/per', place(['characteristics', i, 'per']), `"per" sets the base of a rate (e.g. 200000 hours worked); only u, laney-u and auto charts plot rates, not ${chart}.`));
+    }
+    if (chart !== 'auto' && GAP_CHARTS.has(chart) && c.better !== 'higher') {
+      diagnostics.push(
+        error('review/better', place(['characteristics', i, 'better']), `A ${chart} chart plots the gaps between events, so longer is better: set better: higher (not ${c.better}).`),
+      );
+    }
     let standard: Standard | undefined;
     if (c.standard) {
       const here = place(['characteristics', i, 'standard']);
@@ -97,7 +108,7 @@ export function readReview(text: string, file = REVIEW_FILE): { config?: ReviewC
         }
       } else if (c.standard.sigma !== undefined) {
         diagnostics.push(error('review/standard', here, `A ${c.chart} chart's standard is its center alone (the known ${c.chart === 'np' ? 'p' : c.chart}); remove sigma.`));
-      } else if ((c.chart === 'p' || c.chart === 'np') && !(c.standard.center > 0 && c.standard.center < 1)) {
+      } else if ((c.chart === 'p' || c.chart === 'np' || c.chart === 'laney-p') && !(c.standard.center > 0 && c.standard.center < 1)) {
         diagnostics.push(error('review/standard', here, `The known fraction p must lie between 0 and 1, not ${c.standard.center}.`));
       } else if (!(c.standard.center > 0)) {
         diagnostics.push(error('review/standard', here, `The known ${c.chart} must be above 0, not ${c.standard.center}.`));
@@ -108,7 +119,7 @@ export function readReview(text: string, file = REVIEW_FILE): { config?: ReviewC
     characteristics.push({
       id: c.id,
       name: c.name,
-      chart: c.chart as Characteristic['chart'],
+      chart,
       data: c.data,
       unit: c.unit,
       better: c.better,
@@ -116,6 +127,7 @@ export function readReview(text: string, file = REVIEW_FILE): { config?: ReviewC
       ...(standard ? { standard } : {}),
       safety: c.safety,
       tags: c.tags,
+      ...(c.per !== undefined ? { per: c.per } : {}),
     });
   });
   if (diagnostics.length > 0) return { diagnostics };
@@ -127,6 +139,7 @@ export function readReview(text: string, file = REVIEW_FILE): { config?: ReviewC
       rules: r.rules,
       minPoints: r.minPoints,
       freezeAfter: r.freezeAfter,
+      customers: r.customers,
       characteristics,
     },
     diagnostics,

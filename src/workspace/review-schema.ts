@@ -1,6 +1,6 @@
 /** The schema of review.yaml. Defaults here are the documented ones. */
 import { z } from 'zod';
-import { CHART_IDS, PLANNED_CHART_IDS } from '../model.ts';
+import { CHART_IDS } from '../model.ts';
 import { RULE_IDS, RULE_SETS } from '../signals/rule-sets.ts';
 import { isIsoDate } from './dates.ts';
 
@@ -8,14 +8,8 @@ const isoDate = z.string({ error: 'must be a date written YYYY-MM-DD' }).refine(
 const finite = z.number({ error: 'must be a number' }).refine(Number.isFinite, { error: 'must be a finite number' });
 
 const chart = z.string({ error: 'must be a chart family name' }).superRefine((v, ctx) => {
-  if ((CHART_IDS as readonly string[]).includes(v)) return;
-  const planned = (PLANNED_CHART_IDS as readonly string[]).includes(v);
-  ctx.addIssue({
-    code: 'custom',
-    message: planned
-      ? `"${v}" is not available in this version; use one of ${CHART_IDS.join(', ')}`
-      : `"${v}" is not a chart family; use one of ${CHART_IDS.join(', ')}`,
-  });
+  if ((CHART_IDS as readonly string[]).includes(v) || v === 'auto') return;
+  ctx.addIssue({ code: 'custom', message: `"${v}" is not a chart family; use one of ${CHART_IDS.join(', ')}, or auto for counts` });
 });
 
 export const characteristicSchema = z.strictObject({
@@ -34,6 +28,7 @@ export const characteristicSchema = z.strictObject({
   standard: z.strictObject({ center: finite, sigma: finite.optional() }).optional(),
   safety: z.boolean({ error: 'must be true or false' }).default(false),
   tags: z.array(z.string({ error: 'must be text' }), { error: 'must be a list of tags' }).default([]),
+  per: z.number({ error: 'must be a number' }).refine((v) => Number.isFinite(v) && v > 0, { error: 'must be a number above 0' }).optional(),
 });
 
 export const reviewSchema = z.strictObject({
@@ -51,6 +46,11 @@ export const reviewSchema = z.strictObject({
     .default('western-electric'),
   minPoints: z.number({ error: 'must be a whole number' }).int({ error: 'must be a whole number' }).min(2, { error: 'must be at least 2' }).default(5),
   freezeAfter: z.number({ error: 'must be a whole number' }).int({ error: 'must be a whole number' }).min(2, { error: 'must be at least 2' }).default(20),
+  customers: z
+    .record(z.string(), z.string({ error: 'must be the name to print on that customer\'s pack' }).min(1, { error: 'must not be empty' }), {
+      error: 'must map tags to customer names, e.g. "harbour-market: Harbour Market Ltd"',
+    })
+    .default({}),
   characteristics: z.array(characteristicSchema, { error: 'must be a list of characteristics' }).min(1, { error: 'must list at least one characteristic' }),
 });
 

@@ -1,11 +1,13 @@
 /** Run the whole engine on a workspace held in memory: CSV text in, assessment out. */
 import { analyse, type Assessment } from '../../src/analyse.ts';
-import type { Characteristic, ReviewConfig } from '../../src/model.ts';
+import type { Characteristic, ChartChoice, ConfiguredCharacteristic, ReviewConfig } from '../../src/model.ts';
 import { readDataFile } from '../../src/workspace/data-file.ts';
 import { readLedger } from '../../src/workspace/ledger-file.ts';
 
 export interface InMemoryCase {
-  readonly chart: Characteristic['chart'];
+  readonly chart: ChartChoice;
+  /** Rate charts: the plotted rate is per this many units of exposure. */
+  readonly per?: number;
   readonly csv: string;
   readonly ledger?: string;
   readonly better?: Characteristic['better'];
@@ -17,7 +19,7 @@ export interface InMemoryCase {
 }
 
 export function assess(c: InMemoryCase): Assessment {
-  const characteristic: Characteristic = {
+  const configured: ConfiguredCharacteristic = {
     id: 'x',
     name: 'X',
     chart: c.chart,
@@ -27,6 +29,7 @@ export function assess(c: InMemoryCase): Assessment {
     ...(c.standard ? { standard: c.standard } : {}),
     safety: false,
     tags: [],
+    ...(c.per !== undefined ? { per: c.per } : {}),
   };
   const config: ReviewConfig = {
     title: 'T',
@@ -35,9 +38,11 @@ export function assess(c: InMemoryCase): Assessment {
     rules: c.rules ?? 'western-electric',
     minPoints: c.minPoints ?? 5,
     freezeAfter: c.freezeAfter ?? 20,
-    characteristics: [characteristic],
+    customers: {},
+    characteristics: [configured],
   };
-  const data = readDataFile(c.csv, characteristic);
+  const data = readDataFile(c.csv, configured, config.period.to);
+  const characteristic: Characteristic = data.characteristic;
   const ledger = readLedger(c.ledger ?? 'date,characteristic,action,point,reason,by\n', new Set(['x']));
   return analyse({
     config,

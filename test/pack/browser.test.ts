@@ -22,10 +22,12 @@ let context: BrowserContext;
 const requests: string[] = [];
 const problems: string[] = [];
 let pageUrl: string;
+let characteristics = 0;
 
 beforeAll(async () => {
   const loaded = loadWorkspace(path.join(ROOT, 'data/demo'));
   if (!loaded.ok) throw new Error('demo does not load');
+  characteristics = loaded.workspace.config.characteristics.length;
   const plan = await planPack(loaded.workspace, '2026-11-30');
   const file = path.join(temp, 'index.html');
   writeFileSync(file, plan.files.get('index.html')!);
@@ -63,7 +65,7 @@ describe('index.html in headless Chromium', () => {
 
     // Every chart is laid out with a real size and inside the page.
     const boxes = await page.locator('svg.chart').evaluateAll((svgs) => svgs.map((s) => s.getBoundingClientRect().toJSON() as DOMRect));
-    expect(boxes).toHaveLength(12);
+    expect(boxes).toHaveLength(characteristics);
     for (const b of boxes) {
       expect(b.width).toBeGreaterThan(600);
       expect(b.height).toBeGreaterThan(200);

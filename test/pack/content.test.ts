@@ -38,6 +38,7 @@ function tree(assessments: Assessment[], templates: Templates = toolTemplates, c
       rules: 'western-electric',
       minPoints: 5,
       freezeAfter: 20,
+      customers: {},
       characteristics: assessments.map((a) => a.characteristic),
       ...config,
     },

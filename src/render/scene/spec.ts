@@ -111,6 +111,8 @@ function limitRanges(a: Assessed): PanelSpec['limitRanges'] {
 }
 
 const withUnit = (what: string, unit: string) => (unit ? `${what} (${unit})` : what);
+/** Attribute charts whose plotted statistic carries the characteristic's unit: rates and gaps. */
+const UNIT_CHARTS: ReadonlySet<string> = new Set(['u', 'laney-u', 'g']);
 
 export function chartSpec(a: Assessed, period: { readonly from: IsoDate; readonly to: IsoDate }): ChartSpec {
   const ch = a.characteristic;
@@ -124,7 +126,7 @@ export function chartSpec(a: Assessed, period: { readonly from: IsoDate; readonl
   const panels: PanelSpec[] = [
     {
       role: 'location',
-      label: withUnit(capital(fam.statisticLabel), attributes && ch.chart !== 'u' ? '' : ch.unit),
+      label: withUnit(capital(fam.statisticLabel), attributes && !UNIT_CHARTS.has(ch.chart) ? '' : ch.unit),
       values: a.location.values,
       limits: a.location.limits,
       zones: !attributes,
