@@ -249,6 +249,9 @@ const END = at(2026, 11, 30);
   );
   record('2025-09-03', 'recordable-injuries', 'freeze', months[19], 'Trial limits stable over 20 months', 'J. Haddad');
   record('2026-06-02', 'recordable-injuries', 'change', segregation, 'Pedestrian walkways segregated from forklift routes', 'M. Silva');
+  // The worst month was looked into at the time.
+  const worst = months.slice(0, 30).reduce((w, m) => (injured.filter((d) => monthOf(d) === m).length > injured.filter((d) => monthOf(d) === w).length ? m : w));
+  record('2026-06-02', 'recordable-injuries', 'reviewed', worst, 'Cuts during the line 2 changeover; blade guards replaced on the case cutters', 'J. Haddad');
   const dayIndex = new Map(days.map((d, i) => [d, i]));
   const gaps = injured.slice(1).map((d, i) => [d, dayIndex.get(d) - dayIndex.get(injured[i]) - 1]);
   write('data/injury-gaps.csv', 'date,between', gaps);

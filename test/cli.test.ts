@@ -118,4 +118,16 @@ describe('plumbline CLI', () => {
     expect(r.out).toMatch(/No errors; 10 characteristics can be assessed/);
     expect(readdirSync(FIXTURE).sort()).toEqual(before);
   });
+  it('--only tag=NAME: an unknown tag or a malformed selection exits 2 saying which tags exist, nothing written', () => {
+    const out = path.join(temp, 'only');
+    const unknown = cli('build', FIXTURE, '--out', out, '--only', 'tag=no-such-customer');
+    expect(unknown.code).toBe(2);
+    // The fixture tags nothing, and says so.
+    expect(unknown.err).toMatch(/no characteristic is tagged no-such-customer; no characteristic has tags/);
+    expect(unknown.err).not.toMatch(/\bat .*\.ts:\d+/);
+    const malformed = cli('build', FIXTURE, '--out', out, '--only', 'customer');
+    expect(malformed.code).toBe(2);
+    expect(malformed.err).toMatch(/--only customer .*use --only tag=NAME/);
+    expect(existsSync(out)).toBe(false);
+  });
 });

@@ -252,9 +252,9 @@ function characteristicBlocks(a: Assessment, input: PackInput, diagnostics: Diag
   const historyBlock: RootContent[] = history.length
     ? [table(['Date', 'Action', 'Point', 'Reason', 'By', 'Line'], history.map((e) => [e.date, e.action, e.point || '–', e.reason || '–', e.by || '–', String(e.line)]))]
     : [paragraph('No ledger entries yet.')];
-  const issues: RootContent[] = a.diagnostics.length
-    ? [heading(3, undefined, 'Data issues'), list(sortDiagnostics(a.diagnostics).map((d) => [formatDiagnostic(d)]))]
-    : [];
+  // `chart/` diagnostics are shown as chart notes beside the chart, not again here.
+  const own = a.diagnostics.filter((d) => !d.ruleId.startsWith('chart/'));
+  const issues: RootContent[] = own.length ? [heading(3, undefined, 'Data issues'), list(sortDiagnostics(own).map((d) => [formatDiagnostic(d)]))] : [];
 
   let blocks: Record<string, readonly RootContent[]>;
   let strings: Record<string, string>;

@@ -8,6 +8,7 @@ export interface InMemoryCase {
   readonly chart: ChartChoice;
   /** Rate charts: the plotted rate is per this many units of exposure. */
   readonly per?: number;
+  readonly spec?: Characteristic['spec'];
   readonly csv: string;
   readonly ledger?: string;
   readonly better?: Characteristic['better'];
@@ -30,6 +31,7 @@ export function assess(c: InMemoryCase): Assessment {
     safety: false,
     tags: [],
     ...(c.per !== undefined ? { per: c.per } : {}),
+    ...(c.spec ? { spec: c.spec } : {}),
   };
   const config: ReviewConfig = {
     title: 'T',

@@ -126,7 +126,7 @@ export function chartSpec(a: Assessed, period: { readonly from: IsoDate; readonl
   const panels: PanelSpec[] = [
     {
       role: 'location',
-      label: withUnit(capital(fam.statisticLabel), attributes && !UNIT_CHARTS.has(ch.chart) ? '' : ch.unit),
+      label: withUnit(ch.per !== undefined && fam.observation === 'rate' ? 'Rate' : capital(fam.statisticLabel), attributes && !UNIT_CHARTS.has(ch.chart) ? '' : ch.unit),
       values: a.location.values,
       limits: a.location.limits,
       zones: !attributes,
