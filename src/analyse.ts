@@ -7,7 +7,7 @@ import { type Diagnostic, hasErrors, info } from './diagnostics.ts';
 import { type CapabilityReport, capabilityReport } from './review/capability.ts';
 import { type ChartNotes, chartNotes } from './review/notes.ts';
 import { type RateReport, rateReport } from './review/rates.ts';
-import { medianSide } from './signals/median-line.ts';
+import { type RunSide, medianSide } from './signals/median-line.ts';
 import { type DispersionCheck, checkDispersion } from './stats/overdispersion.ts';
 import type { Characteristic, IsoDate, LedgerEntry, ReviewConfig, Sample } from './model.ts';
 import { type Baseline, buildBaselines } from './limits/baselines.ts';
@@ -16,7 +16,7 @@ import { type Evidence, gatherEvidence } from './review/evidence.ts';
 import { type Recommendation, recommend } from './review/recommend.ts';
 import { type Signal, evaluatePanel } from './signals/evaluate.ts';
 import { rule, rulesFor } from './signals/rule-sets.ts';
-import { type Limits, family } from './stats/index.ts';
+import { type CountModel, type Limits, family } from './stats/index.ts';
 
 export interface PanelResult {
   readonly values: readonly (number | null)[];
@@ -116,12 +116,20 @@ export function analyse(input: AnalyseInput): Assessment {
   const panelKind = fam.standardKind === 'variables' ? 'variables' : 'attributes';
   // Small, skewed counts: same-side runs are judged against each point's median (src/signals/median-line.ts).
   const runModel = fam.runModel?.bind(fam);
+  // Frozen limits repeat the same distribution point after point; place each (count, distribution) once.
+  const placed = new Map<string, RunSide>();
+  const place = (m: CountModel) => {
+    const key = JSON.stringify(m);
+    let r = placed.get(key);
+    if (!r) placed.set(key, (r = medianSide(m)));
+    return r;
+  };
   const runSides = runModel
     ? samples.map((s, i) => {
         const l = locLimits[i];
         const est = baselines[baselineOf[i]!]?.limits?.estimate;
         const m = l && est ? runModel(s, l, est) : undefined;
-        return m ? medianSide(m) : undefined;
+        return m ? place(m) : undefined;
       })
     : [];
   const locSignals = evaluatePanel(
