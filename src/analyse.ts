@@ -4,6 +4,7 @@
  * and the recommendation. Pure: no files, no clock.
  */
 import { type Diagnostic, hasErrors, info } from './diagnostics.ts';
+import { fmt } from './format.ts';
 import { type CapabilityReport, capabilityReport } from './review/capability.ts';
 import { type ChartNotes, chartNotes } from './review/notes.ts';
 import { type RateReport, rateReport } from './review/rates.ts';
@@ -164,6 +165,18 @@ export function analyse(input: AnalyseInput): Assessment {
     refreshAfter,
   });
 
+  const current = baselines[baselines.length - 1]!;
+  const usable: number[] = [];
+  for (let i = current.start; i < current.end; i++) if (!replay.state.excluded.has(i)) usable.push(i);
+  const label = (i: number) => samples[i]!.label;
+
+  // Over the points the current limits rest on, against the ordinary model.
+  const ordinary = fam.id === 'p' || fam.id === 'np' || fam.id === 'c' || fam.id === 'u';
+  const checkBasis = current.source === 'data' ? current.basis : usable;
+  const dispersionCheck =
+    ordinary && current.limits
+      ? checkDispersion(checkBasis.map((i) => { const l = locLimits[i]!; return l.sigma > 0 ? (locValues[i]! - l.center) / l.sigma : 0; }))
+      : null;
   const recommendation = recommend({
     characteristic: ch.id,
     better: ch.better,
@@ -178,20 +191,11 @@ export function analyse(input: AnalyseInput): Assessment {
     refreshAfter,
     describeRule: (id) => rule(id)?.description ?? id,
     evidence,
+    ...(dispersionCheck?.recommend
+      ? { advice: [`Many signals on this chart may be ordinary variation between periods: the points vary far more than the ${fam.observation === 'proportion' ? 'binomial' : 'Poisson'} model allows (σz = ${fmt(dispersionCheck.sigmaZ, 2)}; see the chart notes). Consider chart: ${fam.observation === 'proportion' ? 'laney-p' : 'laney-u'} before investigating each one.`] }
+      : {}),
   });
 
-  const current = baselines[baselines.length - 1]!;
-  const usable: number[] = [];
-  for (let i = current.start; i < current.end; i++) if (!replay.state.excluded.has(i)) usable.push(i);
-  const label = (i: number) => samples[i]!.label;
-
-  // Over the points the current limits rest on, against the ordinary model.
-  const ordinary = fam.id === 'p' || fam.id === 'np' || fam.id === 'c' || fam.id === 'u';
-  const checkBasis = current.source === 'data' ? current.basis : usable;
-  const dispersionCheck =
-    ordinary && current.limits
-      ? checkDispersion(checkBasis.map((i) => { const l = locLimits[i]!; return l.sigma > 0 ? (locValues[i]! - l.center) / l.sigma : 0; }))
-      : null;
   const capability = capabilityReport({
     characteristic: ch,
     family: fam,

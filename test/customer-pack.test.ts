@@ -84,6 +84,14 @@ describe('the new figures in the full demo pack', () => {
     expect(last.value).toBeGreaterThan(last.ucl!);
     expect(last.signals).toContain('beyond-limits');
   });
+  it('the g chart’s long gap is reported as an improvement to understand, and the overdispersed p chart points to laney-p', () => {
+    expect(byId('injury-gaps').recommendation!.reasons.join(' ')).toMatch(/on the better side: an improvement worth understanding/);
+    const p = byId('vision-rejects-p').recommendation!.reasons.join(' ');
+    expect(p).toMatch(/vary far more than the binomial model allows \(σz = \d\.\d\d/);
+    expect(p).toMatch(/Consider chart: laney-p/);
+    // The Laney chart of the same data keeps its limits: none of its points lies beyond them in the period.
+    expect(byId('vision-rejects').recommendation!.action).toBe('keep');
+  });
   it('the cautions section has the chart-specific cautions for gaps, incidence rates and few events', () => {
     const md = text(full.files.get('index.md'));
     const cautions = md.slice(md.indexOf('## Cautions'));

@@ -41,6 +41,8 @@ export interface RecommendInput {
   readonly refreshAfter: number;
   readonly describeRule: (id: string) => string;
   readonly evidence: Evidence;
+  /** Sentences that bear on every action, e.g. that the limits are too tight for these data. */
+  readonly advice?: readonly string[];
 }
 
 const TEST_NAMES: Readonly<Record<Comparison['method'], string>> = {
@@ -76,6 +78,11 @@ function betterSide(better: Better, panel: Signal['panel']): Side | null {
 }
 
 export function recommend(input: RecommendInput): Recommendation {
+  const r = decide(input);
+  return input.advice?.length ? { ...r, reasons: [...r.reasons, ...input.advice] } : r;
+}
+
+function decide(input: RecommendInput): Recommendation {
   const { samples, baselines } = input;
   const k = baselines.length - 1;
   const current = baselines[k]!;
@@ -181,7 +188,12 @@ export function recommend(input: RecommendInput): Recommendation {
       const s = g[0]!;
       const at = g.flatMap((x) => x.flagged).map((i) => `"${label(i)}"`);
       const kinds = [...new Set(g.map((x) => x.persistence))].join(' and ');
-      return `Unexplained signal${g.length > 1 ? 's' : ''}: ${s.panel === 'dispersion' ? 'dispersion chart: ' : ''}${input.describeRule(s.rule)} Fired at ${at.join(', ')} (${kinds}).`;
+      // A signal on the better side is a special cause too, but one to learn from rather than remove.
+      const better = g.every((x) => x.side !== null && x.side === betterSide(input.better, x.panel));
+      return (
+        `Unexplained signal${g.length > 1 ? 's' : ''}: ${s.panel === 'dispersion' ? 'dispersion chart: ' : ''}${input.describeRule(s.rule)} Fired at ${at.join(', ')} (${kinds}).` +
+        (better ? ` ${g.length > 1 ? 'They lie' : 'It lies'} on the better side: an improvement worth understanding; if it lasts, the limits will call for a new baseline.` : '')
+      );
     });
     if (blocking.some((s) => s.persistence === 'persistent' && s.side !== null)) {
       reasons.push(
