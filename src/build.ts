@@ -3,7 +3,7 @@
  * bytes, decided before anything is written (the pack writer writes them).
  */
 import type { Assessment } from './analyse.ts';
-import { planSummary, sha256 } from './assess.ts';
+import { type PreviousLedger, planSummary, rewriteSentence, sha256 } from './assess.ts';
 import type { Diagnostic } from './diagnostics.ts';
 import type { IsoDate } from './model.ts';
 import { buildPackTree } from './pack/content.ts';
@@ -38,6 +38,8 @@ export interface PackOptions {
   readonly progress?: (stage: string, done: number, total: number) => void;
   /** The previous pack's summary.json, for the "Since the last review" section. */
   readonly previous?: SummaryLike;
+  /** The previous pack's manifest record of the ledger, to tell whether earlier rows were rewritten. */
+  readonly previousLedger?: PreviousLedger;
   /** A customer's pack: the tag it was narrowed to and the customer's name. */
   readonly audience?: { readonly tag: string; readonly name: string | null };
 }
@@ -55,7 +57,7 @@ function entries(m: ReadonlyMap<string, Uint8Array>) {
 export const chartFile = (id: string) => `charts/${id}.svg`;
 
 export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOptions = DEFAULT_OPTIONS): Promise<PlannedPack> {
-  const { assessments, summary, diagnostics, exitCode } = planSummary(ws, asOf);
+  const { assessments, summary, diagnostics, integrity, exitCode } = planSummary(ws, asOf, options.previousLedger);
   const inputs = entries(ws.inputs);
   // One hash over the input hashes: the pack's fingerprint of what it was built from.
   const fingerprint = sha256(encoder.encode(inputs.map((i) => `${i.sha256}  ${i.path}`).join('\n')));
@@ -84,6 +86,7 @@ export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOption
     templates: ws.templates,
     chartFile,
     ...(options.audience ? { audience: options.audience } : {}),
+    ...(integrity.rewrite ? { rewritten: rewriteSentence(integrity.rewrite) } : {}),
     ...(options.previous ? { since: compareSummaries(options.previous, previousSummarySchema.parse(JSON.parse(JSON.stringify(summary)))) } : {}),
   });
   const packDiagnostics = [...diagnostics, ...pack.diagnostics];
@@ -106,6 +109,6 @@ export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOption
   );
   options.progress?.('pages', 2, 2);
   files.set('summary.json', json(summary));
-  files.set('manifest.json', json({ tool: TOOL, asOf, fingerprint, inputs, outputs: entries(files) }));
+  files.set('manifest.json', json({ tool: TOOL, asOf, fingerprint, inputs, ledger: { ...integrity.chain, rewrites: integrity.rewrites }, outputs: entries(files) }));
   return { files, assessments, diagnostics: packDiagnostics, exitCode };
 }

@@ -10,6 +10,7 @@ import { EXIT, type Io, UsageError, closest } from './commands/common.ts';
 import { HELP } from './commands/help.ts';
 import { init } from './commands/init.ts';
 import { ledger } from './commands/ledger.ts';
+import { verify } from './commands/verify.ts';
 import { OutputRefused } from './pack/write.ts';
 import { TOOL } from './version.ts';
 import { WorkspaceRefused } from './workspace/write.ts';
@@ -39,7 +40,7 @@ const consoleIo: Io = {
   today: new Date().toISOString().slice(0, 10),
 };
 
-const COMMANDS = ['init', 'check', 'build', 'ledger', 'help'] as const;
+const COMMANDS = ['init', 'check', 'build', 'ledger', 'verify', 'help'] as const;
 
 export async function main(argv: readonly string[], io: Io = consoleIo): Promise<number> {
   const [command, ...rest] = argv;
@@ -54,6 +55,7 @@ export async function main(argv: readonly string[], io: Io = consoleIo): Promise
     if (command === 'check') return check(rest, io);
     if (command === 'build') return await build(rest, io);
     if (command === 'ledger') return await ledger(rest, io);
+    if (command === 'verify') return verify(rest, io);
     const hint = closest(command, COMMANDS);
     throw new UsageError(`unknown command "${command}"${hint ? `; did you mean "${hint}"?` : ''} (commands: ${COMMANDS.filter((c) => c !== 'help').join(', ')})`);
   } catch (e) {

@@ -163,5 +163,13 @@ export const summarySchema = z.looseObject({
     expectedFalseAlarms: num,
   }),
   characteristics: z.array(z.discriminatedUnion('status', [assessed, notAssessed])),
+  /** The ledger's running hash, and whether earlier rows changed since the previous pack. */
+  integrity: z
+    .looseObject({
+      ledgerRows: z.number().int(),
+      ledgerHead: z.string(),
+      rewritten: z.looseObject({ comparedWith: z.string(), row: z.number().int(), previousRows: z.number().int(), currentRows: z.number().int() }).nullable(),
+    })
+    .nullable(),
   diagnostics: z.array(diagnostic),
 });

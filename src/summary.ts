@@ -9,6 +9,7 @@ import type { Signal } from './signals/evaluate.ts';
 import { family } from './stats/index.ts';
 import { rawExposure } from './review/rates.ts';
 import { TOOL } from './version.ts';
+import type { Integrity } from './assess.ts';
 
 export const SUMMARY_FORMAT = 1;
 
@@ -236,7 +237,7 @@ function evidenceJson(a: Assessed) {
   };
 }
 
-export function buildSummary(config: ReviewConfig, assessments: readonly Assessment[], global: readonly Diagnostic[], asOf: IsoDate) {
+export function buildSummary(config: ReviewConfig, assessments: readonly Assessment[], global: readonly Diagnostic[], asOf: IsoDate, integrity?: Integrity) {
   const actions: Record<string, number> = { keep: 0, freeze: 0, 're-baseline': 0, investigate: 0 };
   let expectedFalseAlarms = 0;
   for (const a of assessments) {
@@ -292,6 +293,15 @@ export function buildSummary(config: ReviewConfig, assessments: readonly Assessm
             diagnostics: a.diagnostics.map(diagnosticJson),
           },
     ),
+    integrity: integrity
+      ? {
+          ledgerRows: integrity.chain.rows,
+          ledgerHead: integrity.chain.head,
+          rewritten: integrity.rewrite
+            ? { comparedWith: integrity.rewrite.comparedWith, row: integrity.rewrite.row, previousRows: integrity.rewrite.previousRows, currentRows: integrity.rewrite.currentRows }
+            : null,
+        }
+      : null,
     diagnostics: global.map(diagnosticJson),
   };
 }

@@ -1,7 +1,8 @@
 /** `check` and `build`: read the workspace, assess it, and (for build) write the pack. */
+import { createHash } from 'node:crypto';
 import { existsSync, readFileSync } from 'node:fs';
 import path from 'node:path';
-import { planSummary } from '../assess.ts';
+import { type PreviousLedger, type RewriteRecord, planSummary } from '../assess.ts';
 import type { Assessment } from '../analyse.ts';
 import { type Diagnostic, hasErrors } from '../diagnostics.ts';
 import { checkOutDir, writePack } from '../pack/write.ts';
@@ -60,6 +61,19 @@ export function check(args: readonly string[], io: Io): number {
       : `No errors; ${plan.assessments.length} characteristics can be assessed.`,
   );
   return code;
+}
+
+/** What the previous pack's manifest.json records of the ledger; absent in packs built before it did. */
+function readPreviousLedger(dir: string, asOf: string): PreviousLedger | undefined {
+  try {
+    const m = JSON.parse(readFileSync(path.join(dir, 'manifest.json'), 'utf8')) as { ledger?: { rows?: unknown; chain?: unknown; rewrites?: unknown } };
+    const { rows, chain, rewrites } = m.ledger ?? {};
+    if (typeof rows !== 'number' || !Array.isArray(chain) || chain.length !== rows || !chain.every((h) => typeof h === 'string')) return undefined;
+    const kept = Array.isArray(rewrites) ? rewrites.filter((r): r is RewriteRecord => typeof r === 'object' && r !== null && typeof (r as RewriteRecord).row === 'number') : [];
+    return { asOf, rows, chain: chain as string[], rewrites: kept };
+  } catch {
+    return undefined;
+  }
 }
 
 /** The previous pack's summary.json, read as untrusted input. */
@@ -128,7 +142,9 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
   }
   checkOutDir(outDir, ws.root, [...loaded.workspace.inputs.keys()]);
   // Read the earlier pack before this build replaces it.
-  const previous = typeof values.previous === 'string' ? readPrevious(values.previous, true) : readPrevious(outDir, false);
+  const previousDir = typeof values.previous === 'string' ? values.previous : outDir;
+  const previous = readPrevious(previousDir, typeof values.previous === 'string');
+  const previousLedger = previous ? readPreviousLedger(previousDir, previous.asOf) : undefined;
   const quiet = values.quiet === true || json;
   const progress = quiet || !io.progress ? undefined : io.progress.bind(io);
   // The renderers are loaded only when a pack is built.
@@ -137,6 +153,7 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
     paper,
     png: values.png === true,
     ...(previous ? { previous } : {}),
+    ...(previousLedger ? { previousLedger } : {}),
     ...(audience ? { audience } : {}),
     ...(progress ? { progress: (stage: string, done: number, total: number) => progress(`${stage} ${done}/${total}`) } : {}),
   });
@@ -151,8 +168,10 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
   }
   const order = ['investigate', 're-baseline', 'freeze', 'keep', 'cannot be assessed'];
   const parts = order.filter((k) => counts.has(k)).map((k) => `${counts.get(k)} ${k}`);
+  const manifestSha = createHash('sha256').update(plan.files.get('manifest.json')!).digest('hex');
   io.out(
     `Built ${plural(plan.assessments.length, 'characteristic')}${audience ? ` tagged ${audience.tag}${audience.name ? ` (for ${audience.name})` : ''}` : ''} into ${outDir}: ${parts.join(', ')}.${previous ? ` Compared with the pack built for ${previous.asOf}.` : ''}`,
   );
+  if (!quiet) io.out(`manifest.json SHA-256 ${manifestSha}: send it apart from the pack; plumbline verify checks a copy against its manifest.`);
   return plan.exitCode;
 }

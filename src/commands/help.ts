@@ -13,12 +13,26 @@ Usage:
   plumbline build <workspace> --out <dir>   assess every characteristic and write the pack to <dir>
   plumbline ledger <workspace> add ...      append one decision to ledger.csv, checked as build would
   plumbline ledger <workspace> accept ...   append the ledger lines the last build proposed
+  plumbline verify <pack>                   check a pack against its manifest.json
 
 Options:
   -h, --help       show help (also: plumbline <command> --help)
   -v, --version    print the version
 
 ${EXIT_TEXT}`,
+  verify: `Usage: plumbline verify <pack> [--workspace <dir>] [--json]
+
+Checks every file of a pack against the SHA-256 its manifest.json lists, and
+reports files changed, missing, or added since the build. With --workspace,
+also checks that the inputs listed are those of <dir>. Prints the SHA-256 of
+manifest.json itself: compare it with the sender's by another channel, since
+a manifest rewritten together with the files would pass the file check.
+
+Options:
+  -w, --workspace <dir>   also check the inputs against this workspace
+      --json              print the result as JSON on stdout
+
+Exit status: 0 intact, 1 a difference was found, 2 not a pack or bad usage.`,
   init: `Usage: plumbline init <dir>
 
 Creates <dir> with a review.yaml that explains every field, one small data

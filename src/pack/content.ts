@@ -35,6 +35,8 @@ export interface PackInput {
   readonly chartFile: (id: string) => string;
   /** What changed since the previous pack, when one was given or found. */
   readonly since?: SinceReport;
+  /** Earlier ledger rows were changed or removed since the previous pack: the sentence that says so. */
+  readonly rewritten?: string;
   /** A customer's pack (`build --only tag=NAME`): the tag and the name to print, from review.yaml `customers`. */
   readonly audience?: { readonly tag: string; readonly name: string | null };
 }
@@ -515,6 +517,11 @@ export function buildPackTree(input: PackInput): { tree: Root; diagnostics: Diag
   });
   diagnostics.push(...filled.diagnostics);
   const nodes = filled.nodes;
+  // Rewritten history goes at the top whatever the template says: right after the title, before anything else.
+  if (input.rewritten) {
+    const title = nodes.findIndex((n) => n.type === 'heading' && n.depth === 1);
+    nodes.splice(title + 1, 0, heading(2, 'ledger-history-rewritten', 'Ledger history rewritten'), paragraph(strong('Warning.'), ` ${input.rewritten}`));
+  }
   const contents = assignIds(nodes);
   const at = nodes.findIndex((n) => n.type === 'paragraph' && plain(n) === CONTENTS);
   if (at >= 0) {
