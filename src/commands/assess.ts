@@ -5,7 +5,7 @@ import path from 'node:path';
 import { type PreviousLedger, type RewriteRecord, planSummary } from '../assess.ts';
 import type { Assessment } from '../analyse.ts';
 import { type Diagnostic, hasErrors } from '../diagnostics.ts';
-import { checkOutDir, writePack } from '../pack/write.ts';
+import { checkOutDir, recoverInterrupted, writePack } from '../pack/write.ts';
 import { type SummaryLike, previousSummarySchema } from '../review/since.ts';
 import { TOOL } from '../version.ts';
 import { isIsoDate } from '../workspace/dates.ts';
@@ -141,6 +141,8 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
     audience = { tag: only, name: selected.name };
   }
   checkOutDir(outDir, ws.root, [...loaded.workspace.inputs.keys()]);
+  // A build killed earlier may have left --out under its side name; put it back before reading it.
+  recoverInterrupted(outDir);
   // Read the earlier pack before this build replaces it.
   const previousDir = typeof values.previous === 'string' ? values.previous : outDir;
   const previous = readPrevious(previousDir, typeof values.previous === 'string');

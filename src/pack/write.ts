@@ -32,10 +32,48 @@ export function checkOutDir(outDir: string, workspaceRoot: string, inputFiles: r
   }
 }
 
+/** Is the process that named a temporary folder still running? */
+function alive(pid: number): boolean {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (e) {
+    return (e as NodeJS.ErrnoException).code === 'EPERM';
+  }
+}
+
+/**
+ * A build killed midway (SIGKILL, power loss) leaves its temporary folder
+ * beside --out, and one killed between its two renames leaves the previous
+ * pack under its side name with --out gone. Before writing, restore such a
+ * previous pack and remove the leftovers of builds that are no longer running.
+ */
+export function recoverInterrupted(outDir: string): string[] {
+  const out = path.resolve(outDir);
+  const parent = path.dirname(out);
+  if (!existsSync(parent)) return [];
+  const base = path.basename(out);
+  const pattern = new RegExp(`^\\.${base.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}\\.(building|previous)-(\\d+)-\\d+$`);
+  const removed: string[] = [];
+  for (const name of readdirSync(parent).sort()) {
+    const m = pattern.exec(name);
+    if (!m || alive(Number(m[2]))) continue;
+    const full = path.join(parent, name);
+    if (m[1] === 'previous' && !existsSync(out)) {
+      renameSync(full, out);
+      continue;
+    }
+    rmSync(full, { recursive: true, force: true });
+    removed.push(full);
+  }
+  return removed;
+}
+
 export function writePack(outDir: string, files: ReadonlyMap<string, Uint8Array>): void {
   const out = path.resolve(outDir);
   const parent = path.dirname(out);
   mkdirSync(parent, { recursive: true });
+  recoverInterrupted(out);
   const stamp = `${process.pid}-${Date.now()}`;
   const temp = path.join(parent, `.${path.basename(out)}.building-${stamp}`);
   const old = path.join(parent, `.${path.basename(out)}.previous-${stamp}`);

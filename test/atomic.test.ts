@@ -1,0 +1,93 @@
+/**
+ * Atomic output: a build writes into a temporary folder beside --out and
+ * renames it into place, so a build killed midway leaves the previous pack
+ * as it was; the next build clears what the killed one left. Refused --out
+ * folders, and inputs that are never modified, checked by hashing.
+ */
+import { spawn, spawnSync } from 'node:child_process';
+import { createHash } from 'node:crypto';
+import { appendFileSync, cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import { afterAll, describe, expect, it } from 'vitest';
+
+const ROOT = path.join(import.meta.dirname, '..');
+const BIN = path.join(ROOT, 'bin/plumbline.mjs');
+const temp = mkdtempSync(path.join(tmpdir(), 'plumbline-atomic-'));
+afterAll(() => rmSync(temp, { recursive: true, force: true }));
+
+function cli(...args: string[]) {
+  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: 'utf8', env: { ...process.env, NO_COLOR: '1' } });
+  return { code: r.status, out: r.stdout, err: r.stderr };
+}
+function hashTree(dir: string): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const name of readdirSync(dir, { recursive: true }) as string[]) {
+    const p = path.join(dir, name);
+    if (statSync(p).isFile()) out[name] = createHash('sha256').update(readFileSync(p)).digest('hex');
+  }
+  return out;
+}
+/** A process id that has certainly ended: a child we ran to completion. */
+const deadPid = () => spawnSync(process.execPath, ['-e', '0']).pid!;
+const leftovers = (parent: string, base: string) => readdirSync(parent).filter((n) => n.startsWith(`.${base}.`));
+
+describe('a build killed midway', () => {
+  const ws = path.join(temp, 'ws');
+  const out = path.join(temp, 'pack');
+  it('leaves the previous pack byte for byte, and the next build clears what it left', async () => {
+    cpSync(path.join(ROOT, 'data/demo'), ws, { recursive: true });
+    expect(cli('build', ws, '--out', out, '-q').code).toBe(0);
+    const before = hashTree(out);
+    const inputs = hashTree(ws);
+    // Change the data so the killed build would have written a different pack.
+    appendFileSync(path.join(ws, 'ledger.csv'), '2026-12-01,carbonation,note,,Killed build,\n');
+    const child = spawn(process.execPath, [BIN, 'build', ws, '--out', out, '-q'], { stdio: 'ignore' });
+    await new Promise((r) => setTimeout(r, 1500));
+    child.kill('SIGKILL');
+    await new Promise((r) => child.once('exit', r));
+    expect(hashTree(out)).toEqual(before);
+    const after = hashTree(ws);
+    expect(Object.keys(after).sort()).toEqual(Object.keys(inputs).sort());
+    for (const [f, h] of Object.entries(after)) if (f !== 'ledger.csv') expect(h, f).toBe(inputs[f]);
+    expect(cli('build', ws, '--out', out, '-q').code).toBe(0);
+    expect(leftovers(temp, 'pack')).toEqual([]);
+    expect(hashTree(out)).not.toEqual(before);
+  });
+
+  it('the next build removes a half-written folder left beside --out by a build that is no longer running', () => {
+    const stale = path.join(temp, `.pack.building-${deadPid()}-1`);
+    mkdirSync(path.join(stale, 'charts'), { recursive: true });
+    writeFileSync(path.join(stale, 'charts', 'partial.svg'), '<svg');
+    expect(cli('build', ws, '--out', out, '-q').code).toBe(0);
+    expect(existsSync(stale)).toBe(false);
+  });
+
+  it('a build killed between its two renames leaves the previous pack under a side name: the next build puts it back and compares with it', () => {
+    const side = path.join(temp, `.pack.previous-${deadPid()}-2`);
+    renameSync(out, side);
+    const r = cli('build', ws, '--out', out);
+    expect(r.code).toBe(0);
+    expect(r.out).toMatch(/Compared with the pack built for 2026-11-30/);
+    expect(leftovers(temp, 'pack')).toEqual([]);
+  });
+});
+
+describe('--out that would touch the inputs is refused, and nothing is written', () => {
+  const ws = path.join(temp, 'ws2');
+  it('the workspace itself, a folder that contains it, a folder inside its data', () => {
+    cpSync(path.join(ROOT, 'data/demo'), ws, { recursive: true });
+    const inputs = hashTree(ws);
+    for (const [out, message] of [
+      [ws, /is the workspace or a folder that contains it/],
+      [temp, /is the workspace or a folder that contains it/],
+      [path.join(ws, 'data', 'pack'), /lies inside the data folder data/],
+    ] as const) {
+      const r = cli('build', ws, '--out', out);
+      expect(r.code, out).toBe(2);
+      expect(r.err).toMatch(message);
+    }
+    expect(hashTree(ws)).toEqual(inputs);
+    expect(existsSync(path.join(ws, 'data', 'pack'))).toBe(false);
+  });
+});
