@@ -18,6 +18,15 @@ export function csvField(value: string): string {
   return /[",\r\n]/.test(safe) || safe !== safe.trim() ? `"${safe.replace(/"/g, '""')}"` : safe;
 }
 
+/**
+ * The inverse of the formula guard, for reading: a field written as '=…,
+ * '+…, '-…, '@… is the text after the quote mark, so a guarded line reads
+ * back as the label or reason it was written from.
+ */
+export function unguard(value: string): string {
+  return /^'[=+\-@\t\r]/.test(value) ? value.slice(1) : value;
+}
+
 export function ledgerLine(row: LedgerRow): string {
   return LEDGER_COLUMNS.map((c) => csvField(row[c])).join(',');
 }

@@ -5,7 +5,7 @@
  */
 import { type Diagnostic, error } from '../diagnostics.ts';
 import { LEDGER_ACTIONS, type LedgerAction, type LedgerEntry, REASON_REQUIRED } from '../model.ts';
-import { LEDGER_COLUMNS } from '../review/ledger-line.ts';
+import { LEDGER_COLUMNS, unguard } from '../review/ledger-line.ts';
 import { columnOf, readCsvTable } from './csv-table.ts';
 import { dateProblem } from './dates.ts';
 
@@ -40,7 +40,8 @@ export function readLedger(
   let lastDate = '';
   let lastLine = 0;
   for (const r of t.rows) {
-    const get = (name: string) => r.cells[col.get(name)!]!;
+    // Fields guarded against spreadsheet formulas when written ('=…) read back as written from.
+    const get = (name: string) => unguard(r.cells[col.get(name)!]!);
     const characteristic = get('characteristic');
     const where = (name: string) => ({
       file,

@@ -8,7 +8,8 @@ import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { pathToFileURL } from 'node:url';
-import { type BrowserContext, chromium } from 'playwright-core';
+import type { BrowserContext } from 'playwright-core';
+import { launchChromium } from '../helpers/browser.ts';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { planPack } from '../../src/build.ts';
 import { loadWorkspace } from '../../src/workspace/load.ts';
@@ -32,11 +33,7 @@ beforeAll(async () => {
   const file = path.join(temp, 'index.html');
   writeFileSync(file, plan.files.get('index.html')!);
   pageUrl = pathToFileURL(file).href;
-  context = await chromium.launchPersistentContext(profile, {
-    executablePath: '/usr/bin/chromium',
-    headless: true,
-    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
-  });
+  context = await launchChromium(profile);
 });
 
 afterAll(async () => {

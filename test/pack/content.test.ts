@@ -154,7 +154,10 @@ describe('text from the data is text in every output', () => {
     expect(urls.every((u) => u.startsWith('#'))).toBe(true);
     const texts: string[] = [];
     visit(md, 'text', (n) => void texts.push(n.value));
-    expect(texts.join(' ')).toContain('<script>alert(1)</script>');
-    expect(texts.join(' ')).toContain('[click](javascript:alert(1))');
+    // index.md puts a zero-width space into link-like text (javascript: here) so no renderer autolinks it.
+    const read = texts.join(' ').replace(/\u200b/g, '');
+    expect(read).toContain('<script>alert(1)</script>');
+    expect(read).toContain('[click](javascript:alert(1))');
+    expect(texts.join(' ')).toContain('javascript\u200b:');
   });
 });
