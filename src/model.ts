@@ -31,6 +31,14 @@ export type Standard =
   | { readonly kind: 'variables'; readonly center: number; readonly sigma: number }
   | { readonly kind: 'attributes'; readonly center: number };
 
+/** How a data CSV is written: its field delimiter and decimal mark (European files: `;` and `,`). */
+export interface CsvFormat {
+  readonly delimiter: ',' | ';' | '\t' | '|';
+  readonly decimal: '.' | ',';
+}
+
+export const DEFAULT_CSV: CsvFormat = { delimiter: ',', decimal: '.' };
+
 export interface Characteristic {
   readonly id: string;
   readonly name: string;
@@ -51,6 +59,8 @@ export interface Characteristic {
   readonly per?: number;
   /** Set when review.yaml said `chart: auto`: why this family was chosen. */
   readonly chosen?: string;
+  /** The data file's delimiter and decimal mark, where not the default `,` and `.`. */
+  readonly csv?: CsvFormat;
 }
 
 /** A characteristic as review.yaml gives it, before `chart: auto` is resolved against its data. */

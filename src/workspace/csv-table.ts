@@ -25,7 +25,7 @@ interface Parsed {
 
 const NEWLINES = /\r\n|\n|\r/g;
 
-export function readCsvTable(text: string, file: string, characteristic?: string): { table?: CsvTable; diagnostics: Diagnostic[] } {
+export function readCsvTable(text: string, file: string, characteristic?: string, delimiter = ','): { table?: CsvTable; diagnostics: Diagnostic[] } {
   const where = (line?: number, column?: number) => ({ file, line, column, characteristic });
   if (text.includes('\u0000')) {
     return { diagnostics: [error('csv/not-text', where(1), 'The file is not UTF-8 text (it holds NUL bytes; UTF-16 perhaps). Save it as UTF-8 CSV.')] };
@@ -35,6 +35,7 @@ export function readCsvTable(text: string, file: string, characteristic?: string
     records = parse(text, {
       info: true,
       bom: true,
+      delimiter,
       relax_column_count: true,
       skip_empty_lines: true,
       record_delimiter: ['\r\n', '\n', '\r'],
@@ -47,7 +48,7 @@ export function readCsvTable(text: string, file: string, characteristic?: string
         : err.code === 'INVALID_OPENING_QUOTE' || err.code === 'CSV_INVALID_CLOSING_QUOTE'
           ? 'A quote mark stands inside a field that is not quoted; wrap the field in quotes and double the quote mark.'
           : `The CSV cannot be read: ${String(err.message).split('\n')[0]}`;
-    const line = err.code === 'CSV_QUOTE_NOT_CLOSED' ? (openQuoteLine(text) ?? err.lines ?? 1) : (err.lines ?? 1);
+    const line = err.code === 'CSV_QUOTE_NOT_CLOSED' ? (openQuoteLine(text, delimiter) ?? err.lines ?? 1) : (err.lines ?? 1);
     return { diagnostics: [error('csv/syntax', where(line), plain)] };
   }
   const rows: CsvRow[] = records
@@ -59,6 +60,21 @@ export function readCsvTable(text: string, file: string, characteristic?: string
 
   const diagnostics: Diagnostic[] = [];
   const header = headerRow.cells.map((h) => h.trim());
+  // One header cell holding another common delimiter: the file is separated by that one. Say so, not a cascade of row errors.
+  const other = header.length === 1 ? [';', '\t', '|', ','].find((d) => d !== delimiter && header[0]!.includes(d)) : undefined;
+  if (other) {
+    const shown = other === '\t' ? 'a tab' : `"${other}"`;
+    const setting = other === '\t' ? '"\\t"' : `"${other}"`;
+    return {
+      diagnostics: [
+        error(
+          'csv/delimiter',
+          where(headerRow.line),
+          `The header "${header[0]!.slice(0, 60)}" reads as one column: this file separates its fields with ${shown}, not "${delimiter}". Set csv: {delimiter: ${setting}${other === ';' ? ', decimal: ","' : ''}} in review.yaml, for this characteristic or the whole workspace.`,
+        ),
+      ],
+    };
+  }
   const seen = new Set<string>();
   header.forEach((h, i) => {
     if (h === '') {
@@ -86,7 +102,7 @@ export function readCsvTable(text: string, file: string, characteristic?: string
   return { table: { header: header.slice(0, width), headerLine: headerRow.line, rows: body }, diagnostics };
 }
 
-/** Approximate character column of field i in a simple (unquoted) line. */
+/** Approximate character column of field i in a simple (unquoted) line, with a one-character delimiter. */
 export function columnOf(cells: readonly string[], i: number): number {
   let col = 1;
   for (let k = 0; k < i; k++) col += (cells[k]?.length ?? 0) + 1;
@@ -94,7 +110,7 @@ export function columnOf(cells: readonly string[], i: number): number {
 }
 
 /** The line where a quoted field opens and is never closed (csv-parse reports the end of the file instead). */
-function openQuoteLine(text: string): number | undefined {
+function openQuoteLine(text: string, delimiter: string): number | undefined {
   let line = 1;
   let inQuote = false;
   let opened = 0;
@@ -113,7 +129,7 @@ function openQuoteLine(text: string): number | undefined {
       opened = line;
     }
     if (ch === '\n' || (ch === '\r' && text[i + 1] !== '\n')) line++;
-    fieldStart = ch === ',' || ch === '\n' || ch === '\r';
+    fieldStart = ch === delimiter || ch === '\n' || ch === '\r';
   }
   return inQuote ? opened : undefined;
 }

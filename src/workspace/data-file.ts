@@ -4,7 +4,7 @@
  * date) forming a subgroup. Dates must not go backwards.
  */
 import { type Diagnostic, error, warning } from '../diagnostics.ts';
-import type { Characteristic, ConfiguredCharacteristic, Observation, Sample } from '../model.ts';
+import { type Characteristic, type ConfiguredCharacteristic, DEFAULT_CSV, type Observation, type Sample } from '../model.ts';
 import { chooseCountChart } from '../review/chart-choice.ts';
 import { MAX_SUBGROUP, MIN_SUBGROUP } from '../stats/constants.ts';
 import { family } from '../stats/index.ts';
@@ -42,7 +42,8 @@ function countChart(ch: ConfiguredCharacteristic, header: readonly string[]): Ch
 /** `through`: the review period's last day; `chart: auto` decides on the points up to it. */
 export function readDataFile(text: string, ch: ConfiguredCharacteristic, through?: string): DataRead {
   const file = ch.data;
-  const read = readCsvTable(text, file, ch.id);
+  const format = ch.csv ?? DEFAULT_CSV;
+  const read = readCsvTable(text, file, ch.id, format.delimiter);
   const diagnostics = [...read.diagnostics];
   const asRead: Characteristic = ch.chart === 'auto' ? countChart(ch, read.table?.header ?? []) : { ...ch, chart: ch.chart };
   if (!read.table) return { samples: [], diagnostics, characteristic: asRead };
@@ -118,7 +119,7 @@ function rowsToSamples(table: CsvTable, ch: Characteristic, diagnostics: Diagnos
       lastDateLine = r.line;
     }
     const num = (name: string, check?: (v: number) => string | null): number | undefined => {
-      const parsed = parseNumberCell(cell(r.cells, name));
+      const parsed = parseNumberCell(cell(r.cells, name), ch.csv?.decimal ?? '.');
       if (!parsed.ok) {
         diagnostics.push(error('data/not-a-number', where(r.line, at(r.cells, name)), `Column "${name}" ${parsed.problem}.`));
         ok = false;

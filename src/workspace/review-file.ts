@@ -5,7 +5,7 @@
  */
 import { LineCounter, isNode, parseDocument } from 'yaml';
 import { type Diagnostic, error } from '../diagnostics.ts';
-import type { ChartChoice, ConfiguredCharacteristic, ReviewConfig, Standard } from '../model.ts';
+import { type ChartChoice, type ConfiguredCharacteristic, type CsvFormat, DEFAULT_CSV, type ReviewConfig, type Standard } from '../model.ts';
 import { GAP_CHARTS } from '../stats/index.ts';
 import { FAMILIES } from '../stats/index.ts';
 import { reviewSchema } from './review-schema.ts';
@@ -77,6 +77,14 @@ export function readReview(text: string, file = REVIEW_FILE): { config?: ReviewC
     diagnostics.push(error('review/invalid', place(['freezeAfter']), `freezeAfter (${r.freezeAfter}) must be at least minPoints (${r.minPoints}).`));
   }
 
+  // A characteristic's csv settings fill in from the workspace's, which fill in from the defaults.
+  const workspaceCsv: CsvFormat = { ...DEFAULT_CSV, ...definedOnly(r.csv ?? {}) };
+  const csvProblem = (f: CsvFormat, path: Path) => {
+    if (f.delimiter === ',' && f.decimal === ',') {
+      diagnostics.push(error('review/csv', place(path), 'A comma cannot be both the delimiter and the decimal mark; with decimal: "," use delimiter: ";" (the usual European CSV).'));
+    }
+  };
+  if (r.csv) csvProblem(workspaceCsv, ['csv']);
   const seen = new Map<string, number>();
   const characteristics: ConfiguredCharacteristic[] = [];
   r.characteristics.forEach((c, i) => {
@@ -97,6 +105,8 @@ export function readReview(text: string, file = REVIEW_FILE): { config?: ReviewC
         error('review/better', place(['characteristics', i, 'better']), `A ${chart} chart plots the gaps between events, so longer is better: set better: higher (not ${c.better}).`),
       );
     }
+    const csv: CsvFormat = { ...workspaceCsv, ...definedOnly(c.csv ?? {}) };
+    if (c.csv) csvProblem(csv, ['characteristics', i, 'csv']);
     let standard: Standard | undefined;
     if (c.standard) {
       const here = place(['characteristics', i, 'standard']);
@@ -128,6 +138,7 @@ export function readReview(text: string, file = REVIEW_FILE): { config?: ReviewC
       safety: c.safety,
       tags: c.tags,
       ...(c.per !== undefined ? { per: c.per } : {}),
+      ...(csv.delimiter !== DEFAULT_CSV.delimiter || csv.decimal !== DEFAULT_CSV.decimal ? { csv } : {}),
     });
   });
   if (diagnostics.length > 0) return { diagnostics };

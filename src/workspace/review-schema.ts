@@ -12,6 +12,14 @@ const chart = z.string({ error: 'must be a chart family name' }).superRefine((v,
   ctx.addIssue({ code: 'custom', message: `"${v}" is not a chart family; use one of ${CHART_IDS.join(', ')}, or auto for counts` });
 });
 
+/** A data file's delimiter and decimal mark; a comma cannot be both. */
+const csvFormat = z
+  .strictObject({
+    delimiter: z.enum([',', ';', '\t', '|'], { error: 'must be one of "," ";" "\\t" "|"' }).optional(),
+    decimal: z.enum(['.', ','], { error: 'must be "." or ","' }).optional(),
+  })
+  .optional();
+
 export const characteristicSchema = z.strictObject({
   id: z.string({ error: 'must be text' }).regex(/^[a-z0-9-]+$/, { error: 'may hold only lower-case letters, digits and hyphens' }),
   name: z.string({ error: 'must be text' }).min(1, { error: 'must not be empty' }),
@@ -28,6 +36,7 @@ export const characteristicSchema = z.strictObject({
   standard: z.strictObject({ center: finite, sigma: finite.optional() }).optional(),
   safety: z.boolean({ error: 'must be true or false' }).default(false),
   tags: z.array(z.string({ error: 'must be text' }), { error: 'must be a list of tags' }).default([]),
+  csv: csvFormat,
   per: z.number({ error: 'must be a number' }).refine((v) => Number.isFinite(v) && v > 0, { error: 'must be a number above 0' }).optional(),
 });
 
@@ -46,6 +55,7 @@ export const reviewSchema = z.strictObject({
     .default('western-electric'),
   minPoints: z.number({ error: 'must be a whole number' }).int({ error: 'must be a whole number' }).min(2, { error: 'must be at least 2' }).default(5),
   freezeAfter: z.number({ error: 'must be a whole number' }).int({ error: 'must be a whole number' }).min(2, { error: 'must be at least 2' }).default(20),
+  csv: csvFormat,
   customers: z
     .record(z.string(), z.string({ error: 'must be the name to print on that customer\'s pack' }).min(1, { error: 'must not be empty' }), {
       error: 'must map tags to customer names, e.g. "harbour-market: Harbour Market Ltd"',
