@@ -103,7 +103,7 @@ const assessed = z.looseObject({
     .nullable(),
   baselines: z.array(
     z.looseObject({
-      start: label,
+      start: label.nullable(),
       end: label.nullable(),
       status: z.enum(['trial', 'frozen']),
       source: z.enum(['data', 'standard']),

@@ -117,7 +117,8 @@ function assessedJson(a: Assessed, period: ReviewConfig['period']) {
     points,
     dispersion,
     baselines: a.baselines.map((b) => ({
-      start: label(b.start),
+      // A baseline with no points yet (a data file with a header only) has no first label.
+      start: b.end > b.start ? label(b.start) : null,
       end: b.end > b.start ? label(b.end - 1) : null,
       status: b.status,
       source: b.source,

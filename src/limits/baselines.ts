@@ -116,6 +116,19 @@ export function buildBaselines(
       return;
     }
     const enough = usableIdx.length >= opts.minPoints;
+    // Enough points, but exclusions leave too few for limits: say so rather than quietly collecting.
+    if (!enough && end - start >= opts.minPoints) {
+      const last = [...state.excluded.entries()].filter(([i]) => i >= start && i < end).sort((a, b) => a[1].line - b[1].line).at(-1);
+      if (last) {
+        diagnostics.push(
+          warning(
+            'ledger/too-few-usable',
+            where(last[1]),
+            `Exclusions leave ${usableIdx.length} usable point${usableIdx.length === 1 ? '' : 's'} of ${end - start} in this baseline, fewer than the ${opts.minPoints} (minPoints) limits need, so it has no limits until more points arrive; check that each excluded point had an assignable cause.`,
+          ),
+        );
+      }
+    }
     baselines.push({
       ...common,
       status: 'trial',
