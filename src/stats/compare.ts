@@ -17,7 +17,7 @@
  * would need to detect a difference of the size seen, with 80 % power
  * (normal approximation; null where no number of periods would do).
  */
-import { binomialPmf, clopperPearson, hypergeometricPmf, minLikelihoodP, normalQuantile, studentTCdf, studentTQuantile } from './distributions.ts';
+import { binomialPmf, clopperPearson, hypergeometricPmf, minLikelihoodUnimodalP, normalQuantile, studentTCdf, studentTQuantile } from './distributions.ts';
 
 export interface Comparison {
   readonly method: 'welch-t' | 'exact-poisson-rates' | 'fisher-exact';
@@ -91,8 +91,7 @@ export function poissonRates(
 ): Comparison {
   const n = before.count + after.count;
   const share = after.exposure / (before.exposure + after.exposure);
-  const pmf = Array.from({ length: n + 1 }, (_, k) => binomialPmf(k, n, share));
-  const p = n === 0 ? 1 : minLikelihoodP(pmf, after.count);
+  const p = n === 0 ? 1 : minLikelihoodUnimodalP((k) => binomialPmf(k, n, share), 0, n, Math.min(n, Math.floor((n + 1) * share)), after.count);
   const r1 = before.count / before.exposure;
   const r2 = after.count / after.exposure;
   const odds = (q: number) => (q >= 1 ? Infinity : q / (1 - q));
@@ -122,8 +121,8 @@ export function proportions(
   const total = before.inspected + after.inspected;
   const lo = Math.max(0, after.inspected - (total - d));
   const hi = Math.min(d, after.inspected);
-  const pmf = Array.from({ length: hi + 1 }, (_, k) => (k < lo ? 0 : hypergeometricPmf(k, d, total - d, after.inspected)));
-  const p = minLikelihoodP(pmf, after.defectives);
+  const mode = Math.min(hi, Math.max(lo, Math.floor(((after.inspected + 1) * (d + 1)) / (total + 2))));
+  const p = minLikelihoodUnimodalP((k) => hypergeometricPmf(k, d, total - d, after.inspected), lo, hi, mode, after.defectives);
   const p1 = before.defectives / before.inspected;
   const p2 = after.defectives / after.inspected;
   const t1 = (before.defectives + 1) / (before.inspected + 2);

@@ -90,13 +90,28 @@ export function binomialPmf(k: number, n: number, p: number): number {
 /**
  * Two-sided p-value of a discrete test: the total probability of outcomes no
  * more likely than the one observed (the "minimum likelihood" convention of
- * R's binom.test and fisher.test, with the same relative tolerance for ties).
+ * R's binom.test and fisher.test, with the same relative tolerance for ties),
+ * for a unimodal distribution and without listing its support:
+ * the outcomes more likely than the one observed lie in one run around the
+ * mode, so walk out from the mode while they are, and take the rest. The
+ * walk covers only where the probabilities are above the observed one's (at
+ * most some tens of standard deviations), so counts in the millions cost no
+ * more than a table of that run; listing every count would not fit in memory.
  */
-export function minLikelihoodP(pmf: readonly number[], observed: number): number {
-  const limit = pmf[observed]! * (1 + 1e-7);
-  let p = 0;
-  for (const q of pmf) if (q <= limit) p += q;
-  return Math.min(1, p);
+export function minLikelihoodUnimodalP(pmf: (k: number) => number, lo: number, hi: number, mode: number, observed: number): number {
+  const limit = pmf(observed) * (1 + 1e-7);
+  let inside = 0;
+  for (let k = mode; k <= hi; k++) {
+    const q = pmf(k);
+    if (q <= limit) break;
+    inside += q;
+  }
+  for (let k = mode - 1; k >= lo; k--) {
+    const q = pmf(k);
+    if (q <= limit) break;
+    inside += q;
+  }
+  return Math.min(1, Math.max(0, 1 - inside));
 }
 
 /** Exact (Clopper–Pearson) interval for a binomial proportion with k successes in n. */

@@ -41,7 +41,13 @@ export function readReview(text: string, file = REVIEW_FILE): { config?: ReviewC
     return at(0);
   };
 
-  const raw = doc.toJS();
+  // toJS resolves aliases and can still fail (an alias to no anchor, a recursive merge): that is the file's problem too.
+  let raw: unknown;
+  try {
+    raw = doc.toJS({ maxAliasCount: 100 });
+  } catch (e) {
+    return { diagnostics: [error('yaml/syntax', { file, line: 1 }, `YAML cannot be read: ${String((e as Error).message).split('\n')[0]}`)] };
+  }
   if (raw === null || typeof raw !== 'object' || Array.isArray(raw)) {
     return { diagnostics: [error('review/not-a-mapping', { file, line: 1 }, 'review.yaml must be a mapping of settings (title, period, characteristics, ...).')] };
   }

@@ -114,3 +114,33 @@ describe('exact test of two Poisson rates', () => {
     expect(c.effect.interval[0]).toBeCloseTo((lo / (1 - lo)) * (52 / 20), 6);
   });
 });
+
+describe('the minimum-likelihood p-value without listing the support', () => {
+  // The definition written out: sum every outcome no more likely than the observed one (R's convention, 1e-7 relative tolerance).
+  const byEnumeration = (pmf: number[], observed: number) => {
+    const limit = pmf[observed]! * (1 + 1e-7);
+    return Math.min(1, pmf.filter((q) => q <= limit).reduce((s, q) => s + q, 0));
+  };
+  it('equals the enumeration for binomial and hypergeometric tables, every observed count', async () => {
+    const { binomialPmf, hypergeometricPmf, minLikelihoodUnimodalP } = await import('../../src/stats/distributions.ts');
+    for (const [n, p] of [[10, 0.5], [25, 0.13], [60, 0.9], [200, 0.02]] as const) {
+      const pmf = Array.from({ length: n + 1 }, (_, k) => binomialPmf(k, n, p));
+      const mode = Math.floor((n + 1) * p);
+      for (let x = 0; x <= n; x++) expect(minLikelihoodUnimodalP((k) => binomialPmf(k, n, p), 0, n, mode, x)).toBeCloseTo(byEnumeration(pmf, x), 12);
+    }
+    for (const [succ, fail, draws] of [[8, 12, 10], [30, 300, 50], [4, 96, 20]] as const) {
+      const lo = Math.max(0, draws - fail);
+      const hi = Math.min(succ, draws);
+      const pmf = Array.from({ length: hi + 1 }, (_, k) => (k < lo ? 0 : hypergeometricPmf(k, succ, fail, draws)));
+      const mode = Math.floor(((draws + 1) * (succ + 1)) / (succ + fail + 2));
+      for (let x = lo; x <= hi; x++) expect(minLikelihoodUnimodalP((k) => hypergeometricPmf(k, succ, fail, draws), lo, hi, mode, x)).toBeCloseTo(byEnumeration(pmf, x), 12);
+    }
+  });
+  it('handles counts in the hundreds of millions without listing them (found by fuzzing: it ran out of memory)', async () => {
+    const { poissonRates } = await import('../../src/stats/compare.ts');
+    const c = poissonRates({ count: 739_009_120, exposure: 10, periods: 10 }, { count: 30, exposure: 10, periods: 10 });
+    expect(c.p).toBe(0);
+    const even = poissonRates({ count: 50_000_000, exposure: 1, periods: 1 }, { count: 50_000_000, exposure: 1, periods: 1 });
+    expect(even.p).toBeCloseTo(1, 6);
+  });
+});
