@@ -106,8 +106,9 @@ export function analyse(input: AnalyseInput): Assessment {
   const dispValues: (number | null)[] = [];
   for (const b of baselines) {
     const v = fam.values(samples.slice(b.start, b.end));
-    locValues.push(...v.location);
-    if (v.dispersion) dispValues.push(...v.dispersion);
+    // Appended one by one: spreading a million values into push overflows the call stack.
+    for (const x of v.location) locValues.push(x);
+    if (v.dispersion) for (const x of v.dispersion) dispValues.push(x);
   }
 
   const explained = (i: number) => replay.state.excluded.has(i) || replay.state.reviewed.has(i);

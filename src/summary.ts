@@ -198,6 +198,7 @@ function changePointJson(a: Assessed) {
     interval: [label(c.interval[0]), label(c.interval[1])],
     method: c.method,
     significance: c.significance,
+    permutations: c.permutations,
     likelihoodRatio: c.lr,
     before: c.before,
     after: c.after,

@@ -101,8 +101,9 @@ function signalsInPeriod(a: Assessed, inPeriod: ReadonlySet<number>): Signal[] {
 }
 
 function range(values: readonly number[], decimals: number): string {
-  const lo = Math.min(...values);
-  const hi = Math.max(...values);
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (const v of values) (lo = Math.min(lo, v)), (hi = Math.max(hi, v));
   return hi - lo < 10 ** -decimals / 2 ? fmt(lo, decimals) : `${fmt(lo, decimals)} to ${fmt(hi, decimals)}`;
 }
 
@@ -182,7 +183,7 @@ function evidenceBlocks(a: Assessed, rulesText: string): RootContent[] {
   if (cp) {
     items.push([
       strong('Estimated change point'),
-      `: "${label(cp.index)}", level ${num(cp.before)} → ${num(cp.after)}; plausible from "${label(cp.interval[0])}" to "${label(cp.interval[1])}"; confidence ${confidenceText(cp.significance)} that the level changed at all (permutation test, 999 seeded reorderings; likelihood ratio ${num(cp.lr)}). The chart shows the levels before and after and the plausible range.`,
+      `: "${label(cp.index)}", level ${num(cp.before)} → ${num(cp.after)}; plausible from "${label(cp.interval[0])}" to "${label(cp.interval[1])}"; confidence ${confidenceText(cp.significance, cp.permutations)} that the level changed at all (permutation test, ${cp.permutations} seeded reorderings; likelihood ratio ${num(cp.lr)}). The chart shows the levels before and after and the plausible range.`,
     ]);
   }
   for (const t of e.changeTests) {

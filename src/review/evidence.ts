@@ -27,6 +27,8 @@ export interface ChangePointEvidence {
   readonly before: number;
   readonly after: number;
   readonly significance: number;
+  /** Reorderings the confidence rests on. */
+  readonly permutations: number;
   readonly lr: number;
   readonly method: string;
 }
@@ -165,6 +167,7 @@ export function gatherEvidence(input: EvidenceInput): Evidence {
         before: level(est.before),
         after: level(est.after),
         significance: est.significance,
+        permutations: est.permutations,
         lr: est.lr,
         method: est.method,
       };

@@ -52,8 +52,11 @@ const TEST_NAMES: Readonly<Record<Comparison['method'], string>> = {
 };
 
 const num = fmtAuto;
-/** 999 reorderings resolve a confidence to 0.001; all of them below reads "at least 0.999". */
-export const confidenceText = (c: number) => (c >= 0.999 ? 'at least 0.999' : fmt(c, 3));
+/** B reorderings resolve a confidence to 1/B; all of them below reads "at least 1 − 1/B" (0.999 for the usual 999). */
+export const confidenceText = (c: number, permutations = 999) => {
+  const top = 1 - 1 / permutations;
+  return c >= 1 - 1e-12 ? `at least ${fmt(top, 3)}` : fmt(c, 3);
+};
 const pValue = (p: number) => (p < 0.0001 ? 'p < 0.0001' : `p = ${fmt(p, p < 0.01 ? 4 : 3)}`);
 
 /** "mean 10.2 → 9.1 (difference −1.1, 95 % interval −1.6 to −0.6; Welch's t-test, p = 0.0004)". */
@@ -113,7 +116,7 @@ function decide(input: RecommendInput): Recommendation {
   const estimated = (s: Signal) =>
     s.panel === 'location' && cpe && cpe.significance >= CHANGE_CONFIDENCE && cpe.index > current.start && cpe.index <= s.flagged[0]! ? cpe.index : undefined;
   const estimateSentence = cpe
-    ? `The level changed most likely at "${label(cpe.index)}" (${num(cpe.before)} → ${num(cpe.after)}; plausible from "${label(cpe.interval[0])}" to "${label(cpe.interval[1])}"; confidence ${confidenceText(cpe.significance)} by a permutation test).`
+    ? `The level changed most likely at "${label(cpe.index)}" (${num(cpe.before)} → ${num(cpe.after)}; plausible from "${label(cpe.interval[0])}" to "${label(cpe.interval[1])}"; confidence ${confidenceText(cpe.significance, cpe.permutations)} by a permutation test).`
     : undefined;
   const improved: ChangeTest | undefined = evidence.changeTests.find(
     (t) => t.significant && t.better === true && t.index > current.start && t.comparison.periodsAfter >= input.minPoints,
@@ -183,7 +186,13 @@ function decide(input: RecommendInput): Recommendation {
     }
     // One sentence per rule and panel, however often it fired.
     const groups = new Map<string, Signal[]>();
-    for (const s of blocking) groups.set(`${s.panel}:${s.rule}`, [...(groups.get(`${s.panel}:${s.rule}`) ?? []), s]);
+    for (const s of blocking) {
+      const key = `${s.panel}:${s.rule}`;
+      // Appended in place: copying the group for each signal is quadratic when a long series has thousands.
+      const g = groups.get(key);
+      if (g) g.push(s);
+      else groups.set(key, [s]);
+    }
     const reasons = [...groups.values()].map((g) => {
       const s = g[0]!;
       const at = g.flatMap((x) => x.flagged).map((i) => `"${label(i)}"`);

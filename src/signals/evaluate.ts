@@ -90,6 +90,21 @@ export function evaluatePanel(
       seq.push(i);
       points.push(rulePoint(v, l, series.runSide?.(i)));
     }
+    // Points on each side from position i to the baseline's end, so each signal's persistence is one lookup.
+    const above = new Int32Array(points.length + 1);
+    const below = new Int32Array(points.length + 1);
+    for (let i = points.length - 1; i >= 0; i--) {
+      const side = runSideOf(points[i]!);
+      above[i] = above[i + 1]! + (side === 'above' ? 1 : 0);
+      below[i] = below[i + 1]! + (side === 'below' ? 1 : 0);
+    }
+    const persistence = (start: number, side: Side | null): Persistence => {
+      if (side === null) return 'fleeting';
+      const tail = points.length - start;
+      if (tail < PERSISTENT_MIN_POINTS) return 'fleeting';
+      const onSide = side === 'above' ? above[start]! : below[start]!;
+      return onSide >= PERSISTENT_SHARE * tail ? 'persistent' : 'fleeting';
+    };
     for (const rule of rules) {
       for (const ep of episodes(rule, rule.detect(points))) {
         const involved = seq.slice(ep.start, ep.flagged.at(-1)! + 1);
@@ -100,7 +115,7 @@ export function evaluatePanel(
           side: ep.side,
           points: involved,
           flagged: ep.flagged.map((p) => seq[p]!),
-          persistence: persistence(points, ep.start, ep.side),
+          persistence: persistence(ep.start, ep.side),
           explained: involved.some(isExplained),
         });
       }
@@ -112,14 +127,7 @@ export function evaluatePanel(
 /**
  * Persistent when the level moved and stayed: from the pattern's first point
  * to the latest point of the baseline there are at least 8 points and at
- * least 80 % of them are on the signalled side. Patterns without a side
- * (alternation, stratification, mixture) describe spread, not level, and are
- * fleeting.
+ * least 80 % of them are on the signalled side (counted in `evaluatePanel`
+ * from suffix sums). Patterns without a side (alternation, stratification,
+ * mixture) describe spread, not level, and are fleeting.
  */
-function persistence(points: readonly RulePoint[], start: number, side: Side | null): Persistence {
-  if (side === null) return 'fleeting';
-  const tail = points.slice(start);
-  if (tail.length < PERSISTENT_MIN_POINTS) return 'fleeting';
-  const onSide = tail.filter((p) => runSideOf(p) === side).length;
-  return onSide >= PERSISTENT_SHARE * tail.length ? 'persistent' : 'fleeting';
-}

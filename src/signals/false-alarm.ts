@@ -23,7 +23,23 @@ export interface FalseAlarm {
 
 const cache = new Map<string, FalseAlarm>();
 
+/**
+ * Past this many points the chance is simulated for HORIZON points and carried
+ * to m by 1 − (1 − p)^(m/HORIZON): the rules look back at most 15 points, so
+ * stretches of HORIZON points are nearly independent, and simulating a
+ * hundred thousand points 4000 times would take minutes for a figure that is
+ * then all but 100 %.
+ */
+export const HORIZON = 500;
+
 export function falseAlarmChance(rules: readonly Rule[], points: number, seed = 7): FalseAlarm {
+  if (points > HORIZON) {
+    const h = falseAlarmChance(rules, HORIZON, seed);
+    const r = points / HORIZON;
+    const probability = 1 - (1 - h.probability) ** r;
+    // Delta method: d/dp of 1 − (1 − p)^r is r(1 − p)^(r − 1).
+    return { probability, standardError: h.standardError * r * (1 - h.probability) ** (r - 1), points, runs: h.runs };
+  }
   const key = `${rules.map((r) => r.id).join(',')}|${points}|${seed}`;
   const hit = cache.get(key);
   if (hit) return hit;

@@ -36,6 +36,8 @@ export interface ChangePointEstimate {
   readonly lr: number;
   /** Share of reorderings with a smaller statistic: the confidence that a change happened. */
   readonly significance: number;
+  /** Reorderings drawn: 999, fewer for long series (`permutationsFor`). */
+  readonly permutations: number;
   readonly method: string;
 }
 
@@ -43,6 +45,13 @@ export const CHANGE_POINT_METHOD = 'maximum-likelihood change point (Hinkley 197
 
 const CUT = 3.841_458_820_694_124; // χ²₁ 0.95 quantile
 const PERMUTATIONS = 999;
+/**
+ * Reorderings × points the test may spend: 999 reorderings up to 5,000
+ * points, fewer beyond (never below 99), so a long series costs seconds, not
+ * minutes. The confidence then resolves to 1/reorderings, and says so.
+ */
+const BUDGET = 5_000_000;
+export const permutationsFor = (n: number) => Math.max(99, Math.min(PERMUTATIONS, Math.floor(BUDGET / n)));
 
 interface Profile {
   /** ℓ(m) for a split with first new point m, m = 1 … n − 1 (index 0 unused: −Infinity). */
@@ -107,7 +116,8 @@ export function estimateChangePoint(s: ChangeSeries, seed = 1): ChangePointEstim
   const next = seeded(seed);
   let below = 0;
   const order = identity.slice();
-  for (let b = 0; b < PERMUTATIONS; b++) {
+  const permutations = permutationsFor(n);
+  for (let b = 0; b < permutations; b++) {
     shuffle(order, next);
     if (best(profileOf(s, order)).lr < lr) below++;
   }
@@ -117,7 +127,8 @@ export function estimateChangePoint(s: ChangeSeries, seed = 1): ChangePointEstim
     before: profile.level(0, at),
     after: profile.level(at, n),
     lr,
-    significance: below / PERMUTATIONS,
+    significance: below / permutations,
+    permutations,
     method: CHANGE_POINT_METHOD,
   };
 }

@@ -25,6 +25,11 @@ interface Parsed {
 
 const NEWLINES = /\r\n|\n|\r/g;
 
+/** Longest row read, in characters: far beyond any real row, short of exhausting memory on a runaway quote. */
+export const MAX_RECORD_CHARS = 1_000_000;
+/** Most columns a header may have; every file plumbline reads has at most seven. */
+export const MAX_COLUMNS = 1000;
+
 export function readCsvTable(text: string, file: string, characteristic?: string, delimiter = ','): { table?: CsvTable; diagnostics: Diagnostic[] } {
   const where = (line?: number, column?: number) => ({ file, line, column, characteristic });
   if (text.includes('\u0000')) {
@@ -36,6 +41,7 @@ export function readCsvTable(text: string, file: string, characteristic?: string
       info: true,
       bom: true,
       delimiter,
+      max_record_size: MAX_RECORD_CHARS,
       relax_column_count: true,
       skip_empty_lines: true,
       record_delimiter: ['\r\n', '\n', '\r'],
@@ -43,7 +49,9 @@ export function readCsvTable(text: string, file: string, characteristic?: string
   } catch (e) {
     const err = e as { code?: string; lines?: number; message?: string };
     const plain =
-      err.code === 'CSV_QUOTE_NOT_CLOSED'
+      err.code === 'CSV_MAX_RECORD_SIZE'
+        ? `A row is longer than ${MAX_RECORD_CHARS.toLocaleString('en-GB')} characters; no data row needs that many. Look for a quote mark that is never closed, or a field pasted in by mistake.`
+        : err.code === 'CSV_QUOTE_NOT_CLOSED'
         ? 'A quoted field is never closed; check the quote marks.'
         : err.code === 'INVALID_OPENING_QUOTE' || err.code === 'CSV_INVALID_CLOSING_QUOTE'
           ? 'A quote mark stands inside a field that is not quoted; wrap the field in quotes and double the quote mark.'
@@ -59,6 +67,9 @@ export function readCsvTable(text: string, file: string, characteristic?: string
   if (!headerRow) return { diagnostics: [error('csv/empty', where(1), 'The file is empty; it needs a header row naming its columns.')] };
 
   const diagnostics: Diagnostic[] = [];
+  if (headerRow.cells.length > MAX_COLUMNS) {
+    return { diagnostics: [error('csv/too-many-columns', where(headerRow.line), `The header has ${headerRow.cells.length.toLocaleString('en-GB')} columns; plumbline's files have a handful, and it reads at most ${MAX_COLUMNS}. Is this the right file, with the right delimiter?`)] };
+  }
   const header = headerRow.cells.map((h) => h.trim());
   // One header cell holding another common delimiter: the file is separated by that one. Say so, not a cascade of row errors.
   const other = header.length === 1 ? [';', '\t', '|', ','].find((d) => d !== delimiter && header[0]!.includes(d)) : undefined;

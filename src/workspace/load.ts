@@ -115,7 +115,11 @@ export function loadWorkspace(dir: string, options: LoadOptions = {}): LoadResul
     const read = readLedger(ledgerText.text, ids);
     ledger = read.entries;
     for (const d of read.diagnostics) {
-      if (d.characteristic) perLedger.set(d.characteristic, [...(perLedger.get(d.characteristic) ?? []), d]);
+      if (d.characteristic) {
+        const list = perLedger.get(d.characteristic);
+        if (list) list.push(d);
+        else perLedger.set(d.characteristic, [d]);
+      }
       else global.push(d);
     }
   }

@@ -210,7 +210,8 @@ describe('the whole build, with every renderer, on generated workspaces written 
       }),
       opts(0.05),
     );
-  });
+    // 500 whole builds in the full run take minutes on two cores.
+  }, 1_200_000);
 });
 
 export { files, workspace };

@@ -45,8 +45,39 @@ const AXIS: Stroke = { paint: '#8c8c8c', width: 0.7 };
 
 type Pt = readonly [number, number];
 
+/** Width of one drawing column in points: finer than any printer or screen shows. */
+const COLUMN = 0.5;
+
+/**
+ * A long polyline thinned to what can be seen: in each column of COLUMN
+ * points, the first, lowest, highest and last vertex, in their order (the
+ * M4 reduction). The drawn line is the same at that resolution, and a path
+ * of a million points — which no viewer needs and pdf-lib cannot take —
+ * becomes a few thousand.
+ */
+export function overview(run: readonly Pt[]): readonly Pt[] {
+  if (run.length < 8 || run.length <= 4 * Math.max(1, (run[run.length - 1]![0] - run[0]![0]) / COLUMN)) return run;
+  const out: Pt[] = [];
+  let i = 0;
+  while (i < run.length) {
+    const col = Math.floor(run[i]![0] / COLUMN);
+    let j = i;
+    let lo = i;
+    let hi = i;
+    while (j < run.length && Math.floor(run[j]![0] / COLUMN) === col) {
+      if (run[j]![1] < run[lo]![1]) lo = j;
+      if (run[j]![1] > run[hi]![1]) hi = j;
+      j++;
+    }
+    for (const k of [...new Set([i, lo, hi, j - 1])].sort((a, b) => a - b)) out.push(run[k]!);
+    i = j;
+  }
+  return out;
+}
+
 function pathOf(runs: readonly (readonly Pt[])[]): string {
   return runs
+    .map(overview)
     .filter((r) => r.length > 1)
     .map((r) => r.map(([x, y], i) => `${i === 0 ? 'M' : 'L'} ${geom(x)} ${geom(y)}`).join(' '))
     .join(' ');
@@ -232,6 +263,8 @@ export function layoutChart(spec: ChartSpec, metrics: TextMetrics, options: Layo
     }
     items.push(line(plotLeft, f.top, plotLeft, f.bottom, AXIS), line(plotLeft, f.bottom, plotRight, f.bottom, AXIS));
     text(plotLeft, f.top - 6, f.spec.label, SMALL + 0.5, 'start', INK, 600);
+    // More points than columns: the line is a min/max overview (see `overview`); say so on the chart.
+    if (step * 4 < COLUMN) text(plotRight, f.top - 6, `min/max overview of ${values.length.toLocaleString('en-GB')} points`, SMALL, 'end', MUTED);
 
     // Limit labels at the right, pushed apart so they never overlap.
     const labels = rightTexts[k]!.map((t) => ({ ...t, at: y(t.value) + 3 }));
