@@ -5,29 +5,15 @@
  * folders, and inputs that are never modified, checked by hashing.
  */
 import { spawn, spawnSync } from 'node:child_process';
-import { createHash } from 'node:crypto';
-import { appendFileSync, cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { appendFileSync, cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
+import { BIN, ROOT, cli, hashTree } from './helpers/cli.ts';
 
-const ROOT = path.join(import.meta.dirname, '..');
-const BIN = path.join(ROOT, 'bin/plumbline.mjs');
 const temp = mkdtempSync(path.join(tmpdir(), 'plumbline-atomic-'));
 afterAll(() => rmSync(temp, { recursive: true, force: true }));
 
-function cli(...args: string[]) {
-  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: 'utf8', env: { ...process.env, NO_COLOR: '1' } });
-  return { code: r.status, out: r.stdout, err: r.stderr };
-}
-function hashTree(dir: string): Record<string, string> {
-  const out: Record<string, string> = {};
-  for (const name of readdirSync(dir, { recursive: true }) as string[]) {
-    const p = path.join(dir, name);
-    if (statSync(p).isFile()) out[name] = createHash('sha256').update(readFileSync(p)).digest('hex');
-  }
-  return out;
-}
 /** A process id that has certainly ended: a child we ran to completion. */
 const deadPid = () => spawnSync(process.execPath, ['-e', '0']).pid!;
 const leftovers = (parent: string, base: string) => readdirSync(parent).filter((n) => n.startsWith(`.${base}.`));

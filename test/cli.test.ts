@@ -1,34 +1,14 @@
 /** The command line as a user meets it: the real bin, exit codes, what is (not) written, no stack traces for user mistakes. */
-import { spawnSync } from 'node:child_process';
-import { createHash } from 'node:crypto';
 import { cpSync, existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
+import { ROOT, cli, hashTree } from './helpers/cli.ts';
 
-const ROOT = path.join(import.meta.dirname, '..');
-const BIN = path.join(ROOT, 'bin/plumbline.mjs');
 const FIXTURE = path.join(ROOT, 'test/fixtures/engine');
 const temp = mkdtempSync(path.join(tmpdir(), 'plumbline-cli-'));
 afterAll(() => rmSync(temp, { recursive: true, force: true }));
 
-function cli(...args: string[]) {
-  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: 'utf8', env: { ...process.env, NO_COLOR: '1' } });
-  return { code: r.status, out: r.stdout, err: r.stderr };
-}
-
-function hashTree(dir: string): Record<string, string> {
-  const out: Record<string, string> = {};
-  for (const name of readdirSync(dir, { recursive: true }) as string[]) {
-    const p = path.join(dir, name);
-    try {
-      out[name] = createHash('sha256').update(readFileSync(p)).digest('hex');
-    } catch {
-      // a folder
-    }
-  }
-  return out;
-}
 
 describe('plumbline CLI', () => {
   it('--version prints the package version; --help lists the commands', () => {
