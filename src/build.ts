@@ -7,6 +7,7 @@ import { type PreviousLedger, planSummary, rewriteSentence, sha256 } from './ass
 import type { Diagnostic } from './diagnostics.ts';
 import type { IsoDate } from './model.ts';
 import { buildPackTree } from './pack/content.ts';
+import { jsonBytes } from './pack/json-bytes.ts';
 import { toHtml } from './pack/html.ts';
 import { toMarkdown } from './pack/markdown.ts';
 import { type Paper, toPdf } from './pack/pdf.ts';
@@ -47,7 +48,7 @@ export interface PackOptions {
 export const DEFAULT_OPTIONS: PackOptions = { paper: 'a4', png: false };
 
 const encoder = new TextEncoder();
-const json = (value: unknown) => encoder.encode(`${JSON.stringify(value, null, 2)}\n`);
+const json = jsonBytes;
 const byPath = ([a]: [string, unknown], [b]: [string, unknown]) => (a < b ? -1 : a > b ? 1 : 0);
 
 function entries(m: ReadonlyMap<string, Uint8Array>) {
@@ -87,7 +88,7 @@ export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOption
     chartFile,
     ...(options.audience ? { audience: options.audience } : {}),
     ...(integrity.rewrite ? { rewritten: rewriteSentence(integrity.rewrite) } : {}),
-    ...(options.previous ? { since: compareSummaries(options.previous, previousSummarySchema.parse(JSON.parse(JSON.stringify(summary)))) } : {}),
+    ...(options.previous ? { since: compareSummaries(options.previous, previousSummarySchema.parse(summary)) } : {}),
   });
   const packDiagnostics = [...diagnostics, ...pack.diagnostics];
   files.set('index.md', encoder.encode(toMarkdown(pack.tree)));

@@ -87,6 +87,11 @@ function readPrevious(dir: string, explicit: boolean): SummaryLike | undefined {
   try {
     json = JSON.parse(readFileSync(file, 'utf8'));
   } catch (e) {
+    // A summary of millions of points can be longer than a string may be; then there is nothing to compare with.
+    if ((e as NodeJS.ErrnoException).code === 'ERR_STRING_TOO_LONG') {
+      if (explicit) throw new UsageError(`${file} is too large to read back for a comparison; build without --previous`);
+      return undefined;
+    }
     throw new UsageError(`${file} is not valid JSON (${(e as Error).message}); give the folder of an earlier pack`);
   }
   const parsed = previousSummarySchema.safeParse(json);

@@ -1,0 +1,60 @@
+/**
+ * JSON.stringify(value, null, 2) as bytes, written piece by piece: a
+ * summary.json of a million points is larger than the longest string a
+ * JavaScript engine will build, so the text is encoded in chunks and never
+ * held whole. The output is byte for byte what JSON.stringify would write.
+ */
+const encoder = new TextEncoder();
+const CHUNK = 1 << 20;
+
+function* pieces(value: unknown, indent: string): Generator<string> {
+  if (Array.isArray(value)) {
+    if (value.length === 0) return yield '[]';
+    const inner = `${indent}  `;
+    yield '[\n';
+    for (let i = 0; i < value.length; i++) {
+      yield inner;
+      const v = value[i];
+      // As JSON.stringify does: undefined and functions in an array are null.
+      if (v === undefined || typeof v === 'function') yield 'null';
+      else yield* pieces(v, inner);
+      yield i < value.length - 1 ? ',\n' : '\n';
+    }
+    return yield `${indent}]`;
+  }
+  if (value !== null && typeof value === 'object' && typeof (value as { toJSON?: unknown }).toJSON !== 'function') {
+    const entries = Object.entries(value).filter(([, v]) => v !== undefined && typeof v !== 'function');
+    if (entries.length === 0) return yield '{}';
+    const inner = `${indent}  `;
+    yield '{\n';
+    for (let i = 0; i < entries.length; i++) {
+      const [k, v] = entries[i]!;
+      yield `${inner}${JSON.stringify(k)}: `;
+      yield* pieces(v, inner);
+      yield i < entries.length - 1 ? ',\n' : '\n';
+    }
+    return yield `${indent}}`;
+  }
+  yield JSON.stringify(value) ?? 'null';
+}
+
+/** The pretty-printed JSON of `value` with a final line end, as UTF-8 bytes. */
+export function jsonBytes(value: unknown): Uint8Array {
+  const parts: Uint8Array[] = [];
+  let buffer = '';
+  for (const p of pieces(value, '')) {
+    buffer += p;
+    if (buffer.length >= CHUNK) {
+      parts.push(encoder.encode(buffer));
+      buffer = '';
+    }
+  }
+  parts.push(encoder.encode(`${buffer}\n`));
+  const out = new Uint8Array(parts.reduce((n, p) => n + p.length, 0));
+  let at = 0;
+  for (const p of parts) {
+    out.set(p, at);
+    at += p.length;
+  }
+  return out;
+}
