@@ -3,7 +3,8 @@
  * bytes, decided before anything is written (the pack writer writes them).
  */
 import type { Assessment } from './analyse.ts';
-import { type PreviousLedger, planSummary, rewriteSentence, sha256 } from './assess.ts';
+import { planSummary, sha256 } from './assess.ts';
+import { type PreviousLedger, rewriteSentence } from './review/ledger-chain.ts';
 import type { Diagnostic } from './diagnostics.ts';
 import type { IsoDate } from './model.ts';
 import { buildPackTree } from './pack/content.ts';

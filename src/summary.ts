@@ -9,7 +9,7 @@ import type { Signal } from './signals/evaluate.ts';
 import { family } from './stats/index.ts';
 import { rawExposure } from './review/rates.ts';
 import { TOOL } from './version.ts';
-import type { Integrity } from './assess.ts';
+import type { Integrity } from './review/ledger-chain.ts';
 
 export const SUMMARY_FORMAT = 1;
 

@@ -2,7 +2,8 @@
 import { createHash } from 'node:crypto';
 import { existsSync, readFileSync } from 'node:fs';
 import path from 'node:path';
-import { type PreviousLedger, type RewriteRecord, planSummary } from '../assess.ts';
+import { planSummary } from '../assess.ts';
+import type { PreviousLedger, RewriteRecord } from '../review/ledger-chain.ts';
 import type { Assessment } from '../analyse.ts';
 import { type Diagnostic, hasErrors } from '../diagnostics.ts';
 import { checkOutDir, recoverInterrupted, writePack } from '../pack/write.ts';

@@ -65,3 +65,49 @@ export function findRewrite(previous: { readonly rows: number; readonly chain: r
   }
   return null;
 }
+
+/** What a previous pack's manifest says of the ledger, for the history check. */
+export interface PreviousLedger {
+  readonly asOf: string;
+  readonly rows: number;
+  readonly chain: readonly string[];
+  /** Rewrites found by earlier builds, carried from pack to pack so a rebuild does not lose them. */
+  readonly rewrites: readonly RewriteRecord[];
+}
+
+/** A rewrite of the ledger's history as the manifest keeps it. */
+export interface RewriteRecord {
+  readonly foundBy: string;
+  readonly comparedWith: string;
+  readonly row: number;
+  readonly previousRows: number;
+  readonly currentRows: number;
+}
+
+export interface Integrity {
+  readonly chain: LedgerChain;
+  /** Earlier rows changed or removed since the previous pack; null when none, or nothing to compare with. */
+  readonly rewrite: (Rewrite & { readonly comparedWith: string }) | null;
+  /** Every rewrite found so far, this build's last. */
+  readonly rewrites: readonly RewriteRecord[];
+}
+
+/** The ledger against the previous pack's record of it; with no previous pack, nothing to compare. */
+export function checkHistory(chain: LedgerChain, rows: readonly LedgerRow[], previous: PreviousLedger | undefined, asOf: string): Integrity {
+  const found = previous ? findRewrite(previous, chain, rows) : null;
+  const rewrite = found && previous ? { ...found, comparedWith: previous.asOf } : null;
+  const rewrites: RewriteRecord[] = [
+    ...(previous?.rewrites ?? []),
+    ...(rewrite ? [{ foundBy: asOf, comparedWith: rewrite.comparedWith, row: rewrite.row, previousRows: rewrite.previousRows, currentRows: rewrite.currentRows }] : []),
+  ];
+  return { chain, rewrite, rewrites };
+}
+
+/** The history warning in one sentence, for the terminal, the pack and summary.json. */
+export function rewriteSentence(r: NonNullable<Integrity['rewrite']>): string {
+  const what =
+    r.row > r.currentRows
+      ? `the ledger now has ${r.currentRows} row${r.currentRows === 1 ? '' : 's'}, fewer than the ${r.previousRows} it had, so row ${r.row} onward was removed`
+      : `row ${r.row} is not what it was (it now reads "${r.now!.cells.join(', ')}"): it was changed, or a row at or before it was removed or inserted`;
+  return `Ledger history was rewritten since the pack built for ${r.comparedWith}: ${what}. The ledger is append-only; restore the earlier rows and record corrections as new rows.`;
+}

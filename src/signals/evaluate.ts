@@ -98,6 +98,9 @@ export function evaluatePanel(
       above[i] = above[i + 1]! + (side === 'above' ? 1 : 0);
       below[i] = below[i + 1]! + (side === 'below' ? 1 : 0);
     }
+    // Persistent when the level moved and stayed: from the pattern's first point to the baseline's
+    // latest there are at least 8 points, at least 80 % of them on the signalled side. Patterns
+    // without a side (alternation, stratification, mixture) describe spread, not level: fleeting.
     const persistence = (start: number, side: Side | null): Persistence => {
       if (side === null) return 'fleeting';
       const tail = points.length - start;
@@ -123,11 +126,3 @@ export function evaluatePanel(
   });
   return signals.sort((a, b) => a.flagged[0]! - b.flagged[0]! || a.rule.localeCompare(b.rule));
 }
-
-/**
- * Persistent when the level moved and stayed: from the pattern's first point
- * to the latest point of the baseline there are at least 8 points and at
- * least 80 % of them are on the signalled side (counted in `evaluatePanel`
- * from suffix sums). Patterns without a side (alternation, stratification,
- * mixture) describe spread, not level, and are fleeting.
- */
