@@ -105,7 +105,8 @@ function rowsToSamples(table: CsvTable, ch: Characteristic, diagnostics: Diagnos
   for (const r of table.rows) {
     let ok = true;
     const date = cell(r.cells, 'date');
-    const dp = dateProblem(date);
+    // Rows of one subgroup share a date; check it once.
+    const dp = date === lastDate ? null : dateProblem(date);
     if (dp) {
       diagnostics.push(error('data/bad-date', where(r.line, at(r.cells, 'date')), `Column "date" ${dp}.`));
       ok = false;

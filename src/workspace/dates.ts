@@ -4,9 +4,13 @@ const ISO = /^(\d{4})-(\d{2})-(\d{2})$/;
 export function isIsoDate(text: string): boolean {
   const m = ISO.exec(text);
   if (!m) return false;
-  const [y, mo, d] = [Number(m[1]), Number(m[2]), Number(m[3])];
-  const t = new Date(Date.UTC(y, mo - 1, d));
-  return t.getUTCFullYear() === y && t.getUTCMonth() === mo - 1 && t.getUTCDate() === d;
+  // Arithmetic, not a Date: this runs once per data row.
+  const y = Number(m[1]);
+  const mo = Number(m[2]);
+  const d = Number(m[3]);
+  if (mo < 1 || mo > 12 || d < 1) return false;
+  const leap = (y % 4 === 0 && y % 100 !== 0) || y % 400 === 0;
+  return d <= (mo === 2 ? (leap ? 29 : 28) : mo === 4 || mo === 6 || mo === 9 || mo === 11 ? 30 : 31);
 }
 
 /** Why a date cell is not an ISO date, in words; null when it is one. */

@@ -81,18 +81,19 @@ export function loadWorkspace(dir: string, options: LoadOptions = {}): LoadResul
   const realRoot = realpathSync(root);
   const pathProblems: Diagnostic[] = [];
   config.characteristics.forEach((c, i) => {
-    const where = { file: REVIEW_FILE, ...dataFieldLine(review.text!, i) };
+    // Finding the line parses review.yaml again, so only for a path that is refused.
+    const where = () => ({ file: REVIEW_FILE, ...dataFieldLine(review.text!, i) });
     const resolved = path.resolve(root, c.data);
     const rel = path.relative(root, resolved);
     if (path.isAbsolute(c.data) || rel.startsWith('..') || rel === '') {
-      pathProblems.push(error('review/data-outside', where, `Data path "${c.data}" of "${c.id}" leads outside the workspace; give a path inside it.`));
+      pathProblems.push(error('review/data-outside', where(), `Data path "${c.data}" of "${c.id}" leads outside the workspace; give a path inside it.`));
       return;
     }
     try {
       const real = realpathSync(resolved);
       const realRel = path.relative(realRoot, real);
       if (realRel.startsWith('..') || path.isAbsolute(realRel)) {
-        pathProblems.push(error('review/data-outside', where, `Data path "${c.data}" of "${c.id}" is a link to a file outside the workspace.`));
+        pathProblems.push(error('review/data-outside', where(), `Data path "${c.data}" of "${c.id}" is a link to a file outside the workspace.`));
       }
     } catch {
       // A missing file is that characteristic's problem, reported when it is read.
@@ -124,10 +125,16 @@ export function loadWorkspace(dir: string, options: LoadOptions = {}): LoadResul
     }
   }
 
+  const ledgerOf = new Map<string, LedgerEntry[]>();
+  for (const e of ledger) {
+    const list = ledgerOf.get(e.characteristic);
+    if (list) list.push(e);
+    else ledgerOf.set(e.characteristic, [e]);
+  }
   const characteristics = config.characteristics.map((c): CharacteristicInput => {
     const file = readText(path.join(root, c.data));
     const own = [...(perLedger.get(c.id) ?? [])];
-    const entries = ledger.filter((e) => e.characteristic === c.id);
+    const entries = ledgerOf.get(c.id) ?? [];
     if (file.text === undefined) {
       own.unshift(error('data/unreadable', { file: c.data, characteristic: c.id }, `Data file ${c.data} ${file.problem}.`));
       return { characteristic: unresolved(c), samples: [], laterLabels: new Set(), ledger: entries, diagnostics: own };
