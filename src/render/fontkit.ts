@@ -2,10 +2,64 @@
  * @pdf-lib/fontkit ships a UMD bundle whose only usable export under Node's
  * ESM loader is `default`, while its type declarations name the functions
  * directly. This adapter gives the rest of the code the typed module.
+ *
+ * It also remembers each font's word layouts. Shaping (kerning, ligatures)
+ * is fontkit's costly step, and pdf-lib shapes a string twice (to measure it
+ * and to encode it) and again wherever it repeats, so a 1,000-characteristic
+ * pack spent most of its PDF time there. A layout depends only on the font
+ * and the text (no features are passed here), and callers only read it.
  */
 import * as ns from '@pdf-lib/fontkit';
 
 export type FontkitModule = typeof ns;
 export type FontkitFont = ReturnType<typeof ns.create>;
 
-export const fontkit: FontkitModule = (ns as unknown as { default?: FontkitModule }).default ?? ns;
+const raw: FontkitModule = (ns as unknown as { default?: FontkitModule }).default ?? ns;
+
+/** Word layouts kept per font; past this the memory is better spent elsewhere, and the map starts over. */
+const MAX_LAYOUTS = 200_000;
+
+type Run = ReturnType<FontkitFont['layout']>;
+
+function rememberLayouts(font: FontkitFont): FontkitFont {
+  const shape = font.layout.bind(font) as (text: string, ...rest: unknown[]) => Run;
+  let known = new Map<string, Run>();
+  const word = (text: string): Run => {
+    let run = known.get(text);
+    if (run === undefined) {
+      if (known.size >= MAX_LAYOUTS) known = new Map();
+      run = shape(text);
+      known.set(text, run);
+    }
+    return run;
+  };
+  font.layout = ((text: string, ...rest: unknown[]) => {
+    if (rest.some((r) => r !== undefined)) return shape(text, ...rest);
+    if (!text.includes(' ') || text === ' ') return word(text);
+    // A line of words is its words' runs joined by the space's: nearly every
+    // line is new, but its words are not. Latin text has no ligature or
+    // contextual form across a space; only a kerning pair with the space
+    // itself is lost, and pdf-lib ignores kerning anyway (it draws and
+    // measures by glyph advances).
+    const space = word(' ');
+    const glyphs: Run['glyphs'] = [];
+    const positions: Run['positions'] = [];
+    let advanceWidth = 0;
+    text.split(' ').forEach((part, i) => {
+      if (i > 0) {
+        glyphs.push(...space.glyphs);
+        positions.push(...space.positions);
+        advanceWidth += space.advanceWidth;
+      }
+      if (part === '') return;
+      const run = word(part);
+      glyphs.push(...run.glyphs);
+      positions.push(...run.positions);
+      advanceWidth += run.advanceWidth;
+    });
+    return { glyphs, positions, advanceWidth } as unknown as Run;
+  }) as FontkitFont['layout'];
+  return font;
+}
+
+export const fontkit: FontkitModule = { ...raw, create: ((...args: Parameters<FontkitModule['create']>) => rememberLayouts(raw.create(...args))) as FontkitModule['create'] };

@@ -20,8 +20,8 @@ describe('jsonBytes', () => {
       expect(decode(jsonBytes(v))).toBe(reference(v));
     }
   });
-  it('writes a document larger than a chunk in pieces that join up exactly', () => {
-    const big = { points: Array.from({ length: 40_000 }, (_, i) => ({ label: `p${i}`, value: i / 7, signals: i % 3 ? [] : ['beyond-limits'] })) };
+  it('writes a document larger than a chunk in pieces that join up exactly, re-indenting the parts it stringifies whole', () => {
+    const big = { points: Array.from({ length: 40_000 }, (_, i) => ({ label: `p${i}\n\u2028`, value: i / 7, signals: i % 3 ? [] : ['beyond-limits'] })) };
     expect(decode(jsonBytes(big))).toBe(reference(big));
   });
 });

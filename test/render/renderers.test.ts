@@ -16,7 +16,10 @@ import { drawScene } from '../../src/render/pdf-chart.ts';
 import { svgToPng } from '../../src/render/png.ts';
 import type { Scene } from '../../src/render/scene/types.ts';
 import { inlineSvg } from '../../src/render/svg-inline.ts';
-import { renderStandaloneSvg } from '../../src/render/svg-satori.ts';
+import { Resvg } from '@resvg/resvg-js';
+import satori from 'satori';
+import { FONT_FAMILY } from '../../src/render/fonts.ts';
+import { LabelPaths, renderStandaloneSvg } from '../../src/render/svg-satori.ts';
 import { fonts, sceneOf, texts } from '../helpers/charts.ts';
 import { assess, assessed, ledgerCsv, pointsCsv } from '../helpers/in-memory.ts';
 import { streams } from '../helpers/pdf.ts';
@@ -83,10 +86,78 @@ describe('standalone SVG (satori)', () => {
     expect(svg).toContain('<title>Fill &lt;volume&gt; &amp; &quot;head&quot; 3</title>');
     expect(svg).toMatch(/<desc>Individuals and moving range chart of X: 30 points/);
     expect(svg).not.toMatch(/<text[\s>]/);
-    expect(svg).toMatch(/<path fill="#1f1f1f" d="M/);
+    expect(svg).toMatch(/<path fill="#1f1f1f" transform="translate\([\d.]+ [\d.]+\)" d="M/);
   });
   it('is byte-identical for the same scene', async () => {
     expect(await renderStandaloneSvg(scene, fonts)).toBe(await renderStandaloneSvg(scene, fonts));
+  });
+});
+
+describe('standalone SVG: labels laid out once and reused', () => {
+  const labelScene = (labels: { x: number; y: number; text: string; size: number; weight: 400 | 600 }[]): Scene => ({
+    width: 320,
+    height: 120,
+    title: 't',
+    desc: 'd',
+    items: labels.map((l) => ({ kind: 'text', ...l, anchor: 'start', width: 0, fill: '#1f1f1f' })),
+  });
+  const raster = (svg: string) => new Resvg(svg, { font: { loadSystemFonts: false, fontFiles: [fonts.regularPath] } }).render().pixels;
+  const labels = [
+    { x: 10, y: 20, text: 'UCL 53.24', size: 9, weight: 400 as const },
+    { x: 40, y: 60, text: 'Moving range (mm)', size: 9.5, weight: 600 as const },
+    { x: 12, y: 100, text: 'Characteristic 1 — ąé σ', size: 14, weight: 600 as const },
+  ];
+
+  it('draws each label exactly where satori draws it in one direct call (pixel for pixel, on whole-point positions)', async () => {
+    // The reference: satori laying out the same labels itself, as absolutely placed text in one tree.
+    const direct = await satori(
+      {
+        type: 'div',
+        props: {
+          style: { display: 'flex', position: 'relative', width: 320, height: 120, backgroundColor: '#ffffff' },
+          children: labels.map((l) => ({
+            type: 'div',
+            props: {
+              style: { display: 'flex', position: 'absolute', left: l.x, top: l.y - 0.875 * l.size + 0.01, fontFamily: FONT_FAMILY, fontSize: l.size, fontWeight: l.weight, lineHeight: 1, color: '#1f1f1f', whiteSpace: 'nowrap' },
+              children: l.text,
+            },
+          })),
+        },
+      } as unknown as Parameters<typeof satori>[0],
+      {
+        width: 320,
+        height: 120,
+        fonts: [
+          { name: FONT_FAMILY, data: fonts.regular.slice().buffer, weight: 400, style: 'normal' },
+          { name: FONT_FAMILY, data: fonts.semibold.slice().buffer, weight: 600, style: 'normal' },
+        ],
+      },
+    );
+    const ours = raster(await renderStandaloneSvg(labelScene(labels), fonts, new LabelPaths(fonts)));
+    const theirs = raster(direct);
+    let differing = 0;
+    for (let i = 0; i < ours.length; i++) if (Math.abs(ours[i]! - theirs[i]!) > 8) differing++;
+    // Path data is kept to satori's 0.1 pt, so only anti-aliasing may differ, and barely.
+    expect(differing / ours.length).toBeLessThan(0.002);
+    expect(ours.length).toBe(320 * 120 * 4);
+  });
+
+  it('gives a label the same bytes whichever labels shared its batch', async () => {
+    const alone = new LabelPaths(fonts);
+    await alone.prepare([labels[1]!]);
+    const crowded = new LabelPaths(fonts);
+    await crowded.prepare([...Array.from({ length: 700 }, (_, i) => ({ text: `tick ${i}`, size: 9, weight: 400 as const })), labels[0]!, labels[2]!, labels[1]!]);
+    expect(crowded.size).toBe(703);
+    expect(crowded.paths(labels[1]!)).toEqual(alone.paths(labels[1]!));
+    expect(alone.paths(labels[1]!).join('')).toMatch(/^M[\d.]+ -?[\d.]+/);
+    const scene = labelScene(labels);
+    expect(await renderStandaloneSvg(scene, fonts, crowded)).toBe(await renderStandaloneSvg(scene, fonts, new LabelPaths(fonts)));
+  });
+
+  it('draws nothing for an empty or blank label, and never a stray marker colour', async () => {
+    const svg = await renderStandaloneSvg(labelScene([{ x: 5, y: 20, text: ' ', size: 9, weight: 400 }, ...labels]), fonts, new LabelPaths(fonts));
+    expect(svg).not.toMatch(/#0000[0-9a-f]{2}/);
+    expect(svg.match(/transform="translate/g)?.length).toBe(3);
   });
 });
 
