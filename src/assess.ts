@@ -12,8 +12,10 @@ import { buildSummary } from './summary.ts';
 import type { Workspace } from './workspace/load.ts';
 import { LEDGER_FILE } from './workspace/ledger-file.ts';
 
-export function assessAll(ws: Workspace, asOf: IsoDate): Assessment[] {
-  return ws.characteristics.map((c) =>
+/** `known(i)` may give the i-th characteristic's assessment from an earlier build (the build cache), so it is not redone. */
+export function assessAll(ws: Workspace, asOf: IsoDate, known: (index: number) => Assessment | undefined = () => undefined): Assessment[] {
+  return ws.characteristics.map((c, i) =>
+    known(i) ??
     analyse({
       config: ws.config,
       characteristic: c.characteristic,
@@ -39,8 +41,8 @@ export function ledgerOf(ws: Workspace) {
 }
 
 /** The analysis alone: assessments, summary.json and diagnostics, without drawing anything (used by `check`). */
-export function planSummary(ws: Workspace, asOf: IsoDate, previousLedger?: PreviousLedger) {
-  const assessments = assessAll(ws, asOf);
+export function planSummary(ws: Workspace, asOf: IsoDate, previousLedger?: PreviousLedger, known?: (index: number) => Assessment | undefined) {
+  const assessments = assessAll(ws, asOf, known);
   const { rows, chain } = ledgerOf(ws);
   const integrity = checkHistory(chain, rows, previousLedger, asOf);
   const history: Diagnostic[] = integrity.rewrite

@@ -18,7 +18,8 @@ import { layoutChart } from './render/scene/layout.ts';
 import { chartSpec } from './render/scene/spec.ts';
 import { createTextMetrics } from './render/scene/text-metrics.ts';
 import type { Scene } from './render/scene/types.ts';
-import { renderStandaloneSvg } from './render/svg-satori.ts';
+import { type ChartJob, defaultJobs, drawCharts } from './render/pool/chart-pool.ts';
+import { type CacheEntry, cacheKey, encodeEntry, entryPath } from './pack/build-cache.ts';
 import { type SummaryLike, compareSummaries, previousSummarySchema } from './review/since.ts';
 import { TOOL } from './version.ts';
 import type { Workspace } from './workspace/load.ts';
@@ -26,6 +27,8 @@ import type { Workspace } from './workspace/load.ts';
 export interface PlannedPack {
   /** Output path (relative to --out) → contents, in write order. */
   readonly files: ReadonlyMap<string, Uint8Array>;
+  /** The build cache to leave in the pack folder (path → bytes); not part of the pack, not in the manifest. */
+  readonly cache: ReadonlyMap<string, Uint8Array>;
   readonly assessments: readonly Assessment[];
   readonly diagnostics: readonly Diagnostic[];
   /** 0 when every characteristic was assessed, 1 otherwise. */
@@ -44,6 +47,12 @@ export interface PackOptions {
   readonly previousLedger?: PreviousLedger;
   /** A customer's pack: the tag it was narrowed to and the customer's name. */
   readonly audience?: { readonly tag: string; readonly name: string | null };
+  /** Threads to use (the main one included); charts are drawn on the others. Default: every core. */
+  readonly jobs?: number;
+  /** Called with each stage's wall time as it ends (analysis, scenes, tree, markdown, html, pdf, charts, summary), for benchmarks. */
+  readonly timing?: (stage: string, ms: number) => void;
+  /** Entries of an earlier build's cache, by key; absent: no cache is read or written. */
+  readonly cache?: (key: string) => { readonly entry: CacheEntry; readonly bytes: Uint8Array } | undefined;
 }
 
 export const DEFAULT_OPTIONS: PackOptions = { paper: 'a4', png: false };
@@ -59,7 +68,16 @@ function entries(m: ReadonlyMap<string, Uint8Array>) {
 export const chartFile = (id: string) => `charts/${id}.svg`;
 
 export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOptions = DEFAULT_OPTIONS): Promise<PlannedPack> {
-  const { assessments, summary, diagnostics, integrity, exitCode } = planSummary(ws, asOf, options.previousLedger);
+  let clock = performance.now();
+  const lap = (stage: string) => {
+    const now = performance.now();
+    options.timing?.(stage, now - clock);
+    clock = now;
+  };
+  const keys = options.cache ? ws.characteristics.map((c) => cacheKey(ws, c, asOf)) : [];
+  const hits = keys.map((k) => options.cache?.(k));
+  const { assessments, summary, diagnostics, integrity, exitCode } = planSummary(ws, asOf, options.previousLedger, (i) => hits[i]?.entry.assessment);
+  lap('analysis');
   const inputs = entries(ws.inputs);
   // One hash over the input hashes: the pack's fingerprint of what it was built from.
   const fingerprint = sha256(encoder.encode(inputs.map((i) => `${i.sha256}  ${i.path}`).join('\n')));
@@ -67,15 +85,28 @@ export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOption
   const metrics = createTextMetrics(fonts);
   const files = new Map<string, Uint8Array>();
 
+  // Scenes here (the pages need them); the drawing of each chart on the other threads, meanwhile.
   const scenes = new Map<string, Scene>();
-  const assessed = assessments.filter((a) => a.status === 'assessed');
-  for (const [k, a] of assessed.entries()) {
-    const scene = layoutChart(chartSpec(a, ws.config.period), metrics);
+  const drawn = new Map<string, { svg: string; png: Uint8Array | null }>();
+  const jobs: ChartJob[] = [];
+  assessments.forEach((a, i) => {
+    if (a.status !== 'assessed') return;
+    const hit = hits[i]?.entry;
+    const scene = hit?.scene ?? layoutChart(chartSpec(a, ws.config.period), metrics);
     scenes.set(a.characteristic.id, scene);
-    const svg = await renderStandaloneSvg(scene, fonts);
-    files.set(chartFile(a.characteristic.id), encoder.encode(svg));
-    if (options.png) files.set(`charts/${a.characteristic.id}.png`, svgToPng(svg, [fonts.regularPath, fonts.semiboldPath], scene.width * 2));
-    options.progress?.('charts', k + 1, assessed.length);
+    if (hit?.svg && (hit.png || !options.png)) drawn.set(a.characteristic.id, { svg: hit.svg, png: hit.png });
+    else jobs.push({ id: a.characteristic.id, scene, png: options.png });
+  });
+  lap('scenes');
+  let done = drawn.size;
+  const total = scenes.size;
+  options.progress?.('charts', done, total);
+  const threads = Math.max(1, Math.floor(options.jobs ?? defaultJobs()));
+  const charts = drawCharts(jobs, threads - 1, (n) => options.progress?.('charts', (done += n), total));
+  // In one thread the charts are drawn first, as before; with workers the pages are laid out meanwhile.
+  if (threads === 1) {
+    await charts;
+    lap('charts');
   }
 
   const pack = buildPackTree({
@@ -91,9 +122,12 @@ export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOption
     ...(integrity.rewrite ? { rewritten: rewriteSentence(integrity.rewrite) } : {}),
     ...(options.previous ? { since: compareSummaries(options.previous, previousSummarySchema.parse(summary)) } : {}),
   });
+  lap('tree');
   const packDiagnostics = [...diagnostics, ...pack.diagnostics];
   files.set('index.md', encoder.encode(toMarkdown(pack.tree)));
+  lap('markdown');
   files.set('index.html', encoder.encode(toHtml({ tree: pack.tree, title: ws.config.title, scenes, fonts })));
+  lap('html');
   options.progress?.('pages', 1, 2);
   files.set(
     'pack.pdf',
@@ -109,8 +143,29 @@ export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOption
       producer: `${TOOL.name} ${TOOL.version}`,
     }),
   );
+  lap('pdf');
   options.progress?.('pages', 2, 2);
+  for (const r of await charts) drawn.set(r.id, { svg: r.svg, png: r.png });
+  if (threads > 1) lap('charts (waiting for the workers)');
+  for (const a of assessments) {
+    const d = drawn.get(a.characteristic.id);
+    if (!d) continue;
+    files.set(chartFile(a.characteristic.id), encoder.encode(d.svg));
+    if (options.png && d.png) files.set(`charts/${a.characteristic.id}.png`, d.png);
+  }
   files.set('summary.json', json(summary));
+  lap('summary.json');
   files.set('manifest.json', json({ tool: TOOL, asOf, fingerprint, inputs, ledger: { ...integrity.chain, rewrites: integrity.rewrites }, outputs: entries(files) }));
-  return { files, assessments, diagnostics: packDiagnostics, exitCode };
+  const cache = new Map<string, Uint8Array>();
+  if (options.cache) {
+    assessments.forEach((a, i) => {
+      const hit = hits[i];
+      const d = drawn.get(a.characteristic.id);
+      // An entry read back unchanged is written back as read; a new or grown one (a PNG added) is encoded afresh.
+      const bytes = hit && (!d || d.png === hit.entry.png || !d.png) ? hit.bytes : encodeEntry({ assessment: a, scene: scenes.get(a.characteristic.id) ?? null, svg: d?.svg ?? null, png: d?.png ?? null });
+      cache.set(entryPath(keys[i]!), bytes);
+    });
+  }
+  lap('manifest and cache');
+  return { files, cache, assessments, diagnostics: packDiagnostics, exitCode };
 }

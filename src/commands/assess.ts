@@ -114,8 +114,12 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
     only: { type: 'string' },
     quiet: { type: 'boolean', short: 'q' },
     json: { type: 'boolean' },
+    jobs: { type: 'string', short: 'j' },
+    'no-cache': { type: 'boolean' },
   });
   if (values.help) return io.out(HELP.build!), EXIT.ok;
+  const jobs = values.jobs === undefined ? undefined : Number(values.jobs);
+  if (jobs !== undefined && !(Number.isInteger(jobs) && jobs >= 1 && jobs <= 256)) throw new UsageError(`--jobs ${String(values.jobs)} is not a number of threads; give a whole number from 1 to 256`);
   const only = typeof values.only === 'string' ? /^tag=(.+)$/.exec(values.only)?.[1] : undefined;
   if (values.only !== undefined && only === undefined) throw new UsageError(`--only ${String(values.only)} is not a selection this build knows; use --only tag=NAME`);
   const dir = workspaceArg(positionals, 'build');
@@ -157,8 +161,11 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
   const progress = quiet || !io.progress ? undefined : io.progress.bind(io);
   // The renderers are loaded only when a pack is built.
   const { planPack } = await import('../build.ts');
+  const { openCache } = await import('../pack/build-cache.ts');
   const plan = await planPack(ws, asOf ?? ws.config.period.to, {
     paper,
+    ...(jobs !== undefined ? { jobs } : {}),
+    ...(values['no-cache'] === true ? {} : { cache: openCache(outDir) }),
     png: values.png === true,
     ...(previous ? { previous } : {}),
     ...(previousLedger ? { previousLedger } : {}),
@@ -166,7 +173,7 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
     ...(progress ? { progress: (stage: string, done: number, total: number) => progress(`${stage} ${done}/${total}`) } : {}),
   });
   progress?.('');
-  writePack(outDir, plan.files);
+  writePack(outDir, plan.files, plan.cache);
   if (json) return io.out(resultJson('build', dir, plan.exitCode, plan.diagnostics, plan.assessments, { out: outDir, files: [...plan.files.keys()].sort(), comparedWith: previous?.asOf ?? null })), plan.exitCode;
   printDiagnostics(io, plan.diagnostics, quiet);
   const counts = new Map<string, number>();

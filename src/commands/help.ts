@@ -52,12 +52,14 @@ Options:
   -h, --help    show this help
 
 Exit status: 0 no errors, 1 a characteristic has errors, 2 review.yaml is unusable.`,
-  build: `Usage: plumbline build <workspace> --out <dir> [--date YYYY-MM-DD] [--previous <pack>] [--paper a4|letter] [--png] [--only tag=NAME] [--quiet] [--json]
+  build: `Usage: plumbline build <workspace> --out <dir> [--date YYYY-MM-DD] [--previous <pack>] [--paper a4|letter] [--png] [--only tag=NAME] [--jobs N] [--no-cache] [--quiet] [--json]
 
 Assesses every characteristic (limits, signals, a recommendation) and writes
 the review pack to <dir>: index.md with charts/*.svg, index.html, pack.pdf,
 summary.json and manifest.json. The folder is replaced whole, and only once
-everything is ready.
+everything is ready. A build cache in <dir>/.plumbline-cache lets the next
+build redo only the characteristics whose inputs changed; it is not part of
+the pack (the manifest does not list it, verify passes over it).
 
 Options:
   -o, --out <dir>         where the pack goes (required; a new or earlier pack folder)
@@ -67,6 +69,8 @@ Options:
       --png               also write charts/*.png (twice the chart size, for slides and e-mail)
       --only tag=NAME     a customer's pack: only the characteristics tagged NAME, with the
                           customer's name from review.yaml customers on the cover
+  -j, --jobs <n>          threads to use; charts are drawn on all but one (default: every core)
+      --no-cache          neither read nor leave the build cache
   -q, --quiet             print errors and the one-line result only
       --json              print the result as JSON on stdout
   -h, --help              show this help

@@ -11,6 +11,7 @@ import { existsSync, readFileSync, readdirSync, statSync } from 'node:fs';
 import path from 'node:path';
 import { z } from 'zod';
 import { EXIT, type Io, UsageError, parse } from './common.ts';
+import { CACHE_DIR } from '../pack/build-cache.ts';
 import { HELP } from './help.ts';
 
 const listed = z.array(z.looseObject({ path: z.string(), sha256: z.string().regex(/^[0-9a-f]{64}$/) }));
@@ -24,9 +25,12 @@ export interface Finding {
 
 const sha256 = (bytes: Uint8Array) => createHash('sha256').update(bytes).digest('hex');
 
-/** Paths below `dir`, with forward slashes, as the manifest writes them. */
+/** Paths below `dir`, with forward slashes, as the manifest writes them; the build cache is not part of a pack. */
 function filesBelow(dir: string): string[] {
-  return (readdirSync(dir, { recursive: true }) as string[]).filter((f) => statSync(path.join(dir, f)).isFile()).map((f) => f.split(path.sep).join('/'));
+  return (readdirSync(dir, { recursive: true }) as string[])
+    .filter((f) => statSync(path.join(dir, f)).isFile())
+    .map((f) => f.split(path.sep).join('/'))
+    .filter((f) => !f.startsWith(`${CACHE_DIR}/`));
 }
 
 /** A listed path must stay inside its folder: a manifest is input too. */

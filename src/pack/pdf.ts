@@ -10,6 +10,7 @@ import type { Code, Heading, List, PhrasingContent, Root, RootContent, Table } f
 import { PDFArray, PDFDocument, type PDFFont, PDFName, type PDFPage, rgb } from 'pdf-lib';
 import { fontkit } from '../render/fontkit.ts';
 import { type PdfFonts, drawScene } from '../render/pdf-chart.ts';
+import { useNativeDeflate } from '../render/pdf-deflate.ts';
 import type { Scene } from '../render/scene/types.ts';
 import { plain } from './mdast.ts';
 
@@ -81,6 +82,7 @@ function runsOf(nodes: readonly PhrasingContent[], bold = false, link?: string):
 }
 
 export async function toPdf(input: PdfInput): Promise<Uint8Array> {
+  useNativeDeflate();
   const doc = await PDFDocument.create({ updateMetadata: false });
   doc.registerFontkit(fontkit);
   const regular = await doc.embedFont(input.fonts.regular, { subset: true });

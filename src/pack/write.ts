@@ -69,7 +69,8 @@ export function recoverInterrupted(outDir: string): string[] {
   return removed;
 }
 
-export function writePack(outDir: string, files: ReadonlyMap<string, Uint8Array>): void {
+/** `extra`: files that go into the folder but are not the pack (the build cache). */
+export function writePack(outDir: string, files: ReadonlyMap<string, Uint8Array>, extra: ReadonlyMap<string, Uint8Array> = new Map()): void {
   const out = path.resolve(outDir);
   const parent = path.dirname(out);
   mkdirSync(parent, { recursive: true });
@@ -79,9 +80,11 @@ export function writePack(outDir: string, files: ReadonlyMap<string, Uint8Array>
   const old = path.join(parent, `.${path.basename(out)}.previous-${stamp}`);
   mkdirSync(temp);
   try {
-    for (const [name, bytes] of files) {
+    const made = new Set<string>();
+    for (const [name, bytes] of [...files, ...extra]) {
       const target = path.join(temp, name);
-      mkdirSync(path.dirname(target), { recursive: true });
+      const dir = path.dirname(target);
+      if (!made.has(dir)) mkdirSync(dir, { recursive: true }), made.add(dir);
       writeFileSync(target, bytes);
     }
     const hadOld = existsSync(out);

@@ -1,0 +1,180 @@
+/**
+ * Benchmark (not a test) of a plant-sized review: `npm run bench`.
+ *
+ * On a seeded synthetic workspace (bench/plant.ts; 1,000 characteristics
+ * of mixed families, 260 weekly points each, ledgers with freezes,
+ * exclusions and re-baselines) it prints:
+ *   - reading + statistics + signals alone (in this process);
+ *   - the full build (Markdown, HTML, PDF) in a child process: wall time and
+ *     peak resident memory, with --jobs 1 and with the default;
+ *   - a rebuild after one data file changed (the build cache at work);
+ *   - per-chart render time of each renderer, median and p95;
+ *   - output sizes, HTML bytes per characteristic among them;
+ *   - the statistics core alone on 1,000 characteristics × 1,000 points.
+ * BENCH_CHARACTERISTICS (default 1000) sizes the plant.
+ */
+import { spawnSync } from 'node:child_process';
+import { readFileSync, readdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import path from 'node:path';
+import { toHtml as hast } from 'hast-util-to-html';
+import { PDFDocument } from 'pdf-lib';
+import { analyse } from '../src/analyse.ts';
+import { planSummary } from '../src/assess.ts';
+import type { IsoDate, ReviewConfig, Sample } from '../src/model.ts';
+import { loadFonts } from '../src/render/fonts.ts';
+import { fontkit } from '../src/render/fontkit.ts';
+import { drawScene } from '../src/render/pdf-chart.ts';
+import { svgToPng } from '../src/render/png.ts';
+import { layoutChart } from '../src/render/scene/layout.ts';
+import { chartSpec } from '../src/render/scene/spec.ts';
+import { createTextMetrics } from '../src/render/scene/text-metrics.ts';
+import { LabelPaths, renderStandaloneSvg } from '../src/render/svg-satori.ts';
+import { inlineSvg } from '../src/render/svg-inline.ts';
+import { loadWorkspace } from '../src/workspace/load.ts';
+import { writePlant } from './plant.ts';
+
+const N = Number(process.env.BENCH_CHARACTERISTICS ?? 1000);
+const root = path.resolve('out/bench');
+const ws = path.join(root, `plant-${N}`);
+const pack = path.join(root, `pack-${N}`);
+
+const fmtMs = (t: number) => (t >= 10_000 ? `${(t / 1000).toFixed(1)} s` : t >= 1000 ? `${(t / 1000).toFixed(2)} s` : `${t.toFixed(1)} ms`);
+const fmtBytes = (b: number) => (b >= 1 << 20 ? `${(b / (1 << 20)).toFixed(1)} MiB` : `${(b / 1024).toFixed(1)} KiB`);
+const quantiles = (xs: number[]) => {
+  const s = xs.slice().sort((a, b) => a - b);
+  return { median: s[Math.floor(s.length / 2)]!, p95: s[Math.min(s.length - 1, Math.ceil(s.length * 0.95) - 1)]! };
+};
+const line = (label: string, value: string) => console.log(`${label.padEnd(44)} ${value}`);
+
+/** Runs the CLI in a child process; its wall time and peak memory come back on its last stderr line. */
+function measure(args: string[]): { wallMs: number; maxRssMiB: number; code: number } {
+  const run = spawnSync(process.execPath, [path.resolve('bench/build-child.mjs'), ...args], { stdio: ['ignore', 'ignore', 'pipe'], maxBuffer: 1 << 26 });
+  const last = run.stderr.toString().trim().split('\n').at(-1) ?? '';
+  if (!last.startsWith('{')) throw new Error(`plumbline ${args.join(' ')} failed:\n${run.stderr.toString()}`);
+  return JSON.parse(last) as { wallMs: number; maxRssMiB: number; code: number };
+}
+
+function sizeOf(p: string): number {
+  const st = statSync(p);
+  if (!st.isDirectory()) return st.size;
+  return readdirSync(p).reduce((n, f) => n + sizeOf(path.join(p, f)), 0);
+}
+
+console.log(`plumbline plant benchmark: ${N} characteristics (seeded synthetic plant, bench/plant.ts), ${process.platform} ${process.arch}, Node ${process.version}`);
+let t = performance.now();
+const files = writePlant(ws, { characteristics: N });
+line('write the synthetic workspace', fmtMs(performance.now() - t));
+
+// 1. Reading + statistics + signals, in this process.
+t = performance.now();
+const loaded = loadWorkspace(ws);
+if (!loaded.ok) throw new Error('the benchmark workspace does not load');
+const tRead = performance.now() - t;
+t = performance.now();
+const plan = planSummary(loaded.workspace, loaded.workspace.config.period.to);
+const tStats = performance.now() - t;
+line('read workspace', fmtMs(tRead));
+line('statistics + signals + recommendations', fmtMs(tStats));
+line('read + statistics + signals', fmtMs(tRead + tStats));
+
+// 2. Full builds, each in a fresh process.
+rmSync(pack, { recursive: true, force: true });
+const cold1 = measure(['build', ws, '--out', pack, '--no-cache', '--jobs', '1', '-q']);
+rmSync(pack, { recursive: true, force: true });
+const cold = measure(['build', ws, '--out', pack, '-q']);
+line('full pack, cold, --jobs 1 (md, html, pdf)', `${fmtMs(cold1.wallMs)}, peak ${cold1.maxRssMiB.toFixed(0)} MiB`);
+line(`full pack, cold, default jobs`, `${fmtMs(cold.wallMs)}, peak ${cold.maxRssMiB.toFixed(0)} MiB`);
+const warm = measure(['build', ws, '--out', pack, '-q']);
+line('rebuild, nothing changed (cache)', `${fmtMs(warm.wallMs)}, peak ${warm.maxRssMiB.toFixed(0)} MiB`);
+// One characteristic's last reading corrected: a real change to one data file (k0001, an individuals chart).
+const changed = path.join(ws, files[0]!);
+const rows = readFileSync(changed, 'utf8').trimEnd().split('\n');
+const [date, value] = rows.at(-1)!.split(',');
+rows[rows.length - 1] = `${date},${(Number(value) + 0.5).toFixed(3)}`;
+writeFileSync(changed, `${rows.join('\n')}\n`);
+const one = measure(['build', ws, '--out', pack, '-q']);
+line('rebuild after one data file changed', `${fmtMs(one.wallMs)}, peak ${one.maxRssMiB.toFixed(0)} MiB`);
+
+// 3. Output sizes.
+const size = (f: string) => sizeOf(path.join(pack, f));
+line('index.html', `${fmtBytes(size('index.html'))} (${(size('index.html') / N / 1024).toFixed(1)} KiB per characteristic)`);
+line('index.md', fmtBytes(size('index.md')));
+line('pack.pdf', `${fmtBytes(size('pack.pdf'))}`);
+line('summary.json', fmtBytes(size('summary.json')));
+line('charts/ (standalone SVG)', `${fmtBytes(size('charts'))} (${(size('charts') / N / 1024).toFixed(1)} KiB per chart)`);
+line('.plumbline-cache/ (not part of the pack)', fmtBytes(size('.plumbline-cache')));
+
+// 4. Per-chart render time of each renderer, on a sample of the plant's charts.
+const fonts = loadFonts();
+const metrics = createTextMetrics(fonts);
+const assessed = plan.assessments.filter((a) => a.status === 'assessed');
+const sample = assessed.filter((_, i) => i % Math.max(1, Math.floor(assessed.length / 200)) === 0);
+const times = { scene: [] as number[], 'svg (satori, labels cached)': [] as number[], 'svg (satori, fresh labels)': [] as number[], 'inline svg (html)': [] as number[], png: [] as number[], pdf: [] as number[] };
+const doc = await PDFDocument.create({ updateMetadata: false });
+doc.registerFontkit(fontkit);
+const pdfFonts = { regular: await doc.embedFont(fonts.regular, { subset: true }), semibold: await doc.embedFont(fonts.semibold, { subset: true }) };
+const shared = new LabelPaths(fonts);
+for (const a of sample) {
+  let s = performance.now();
+  const scene = layoutChart(chartSpec(a, loaded.workspace.config.period), metrics);
+  times.scene.push(performance.now() - s);
+  s = performance.now();
+  await renderStandaloneSvg(scene, fonts, new LabelPaths(fonts));
+  times['svg (satori, fresh labels)'].push(performance.now() - s);
+  await renderStandaloneSvg(scene, fonts, shared);
+  s = performance.now();
+  const svg = await renderStandaloneSvg(scene, fonts, shared);
+  times['svg (satori, labels cached)'].push(performance.now() - s);
+  s = performance.now();
+  hast(inlineSvg(scene, 'c'));
+  times['inline svg (html)'].push(performance.now() - s);
+  s = performance.now();
+  svgToPng(svg, [fonts.regularPath, fonts.semiboldPath], scene.width * 2);
+  times.png.push(performance.now() - s);
+  s = performance.now();
+  drawScene(doc.addPage([scene.width, scene.height]), scene, { x: 0, top: scene.height, scale: 1 }, pdfFonts);
+  times.pdf.push(performance.now() - s);
+}
+for (const [name, xs] of Object.entries(times)) {
+  const q = quantiles(xs);
+  line(`per chart: ${name}`, `median ${fmtMs(q.median)}, p95 ${fmtMs(q.p95)} (${xs.length} charts)`);
+}
+
+// 5. The statistics core alone: 1,000 individuals characteristics of 1,000 points each, in memory.
+const CORE = 1000;
+const config: ReviewConfig = {
+  title: 'core',
+  organisation: '',
+  period: { from: '2026-01-01', to: '2026-12-31' },
+  rules: 'western-electric',
+  minPoints: 5,
+  freezeAfter: 20,
+  customers: {},
+  characteristics: [],
+};
+let seed = 7;
+const uniform = () => ((seed = (Math.imul(seed, 1664525) + 1013904223) >>> 0) / 4294967296);
+const normal = () => Math.sqrt(-2 * Math.log(1 - uniform())) * Math.cos(2 * Math.PI * uniform());
+const day0 = Date.UTC(2024, 3, 6);
+const dates = Array.from({ length: CORE }, (_, k) => new Date(day0 + k * 86_400_000).toISOString().slice(0, 10) as IsoDate);
+const series = Array.from({ length: CORE }, () =>
+  dates.map((date, k): Sample => ({ line: k + 2, label: date, date, observation: { kind: 'measurements', values: [50 + normal()] } })),
+);
+t = performance.now();
+let signals = 0;
+for (let c = 0; c < CORE; c++) {
+  const a = analyse({
+    config,
+    characteristic: { id: `c${c}`, name: 'c', chart: 'individuals', data: 'd.csv', unit: '', better: 'target', safety: false, tags: [] },
+    samples: series[c]!,
+    laterLabels: new Set(),
+    ledger: [],
+    ledgerFile: 'ledger.csv',
+    diagnostics: [],
+    asOf: '2026-12-31',
+  });
+  if (a.status === "assessed") signals += a.location.signals.length + (a.dispersion?.signals.length ?? 0);
+}
+const tCore = performance.now() - t;
+line(`statistics + signals, ${CORE} × ${CORE} points`, `${fmtMs(tCore)} (whole analysis: limits, rules, evidence, recommendation; ${signals} signals)`);
+line('peak resident memory of this process', `${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MiB`);

@@ -1,0 +1,73 @@
+/**
+ * The incremental build cache: for each characteristic, its assessment,
+ * chart scene and drawn chart, stored under a key that hashes everything
+ * they are computed from. A rebuild after one data file changes finds every
+ * other characteristic here and analyses and draws only that one; the pack
+ * is then assembled from all of them as in a cold build, so its bytes are
+ * the same.
+ *
+ * The cache lives in the pack folder (`.plumbline-cache/`), because a build
+ * writes nothing outside --out. It is not part of the pack: the manifest
+ * does not list it and `verify` passes over it. An entry is found by key
+ * alone, so a stale entry is never used; one that cannot be read is redone.
+ */
+import { createHash } from 'node:crypto';
+import { readFileSync } from 'node:fs';
+import path from 'node:path';
+import { deserialize, serialize } from 'node:v8';
+import type { Assessment } from '../analyse.ts';
+import type { IsoDate } from '../model.ts';
+import type { Scene } from '../render/scene/types.ts';
+import { TOOL } from '../version.ts';
+import type { CharacteristicInput, Workspace } from '../workspace/load.ts';
+
+export const CACHE_DIR = '.plumbline-cache';
+/** Bump when what an entry holds, or how it is computed, changes without a tool version change. */
+const FORMAT = 1;
+
+export interface CacheEntry {
+  readonly assessment: Assessment;
+  /** Null for a characteristic that could not be assessed. */
+  readonly scene: Scene | null;
+  readonly svg: string | null;
+  /** Drawn only by builds that asked for PNGs; drawn from `svg` when a later build asks. */
+  readonly png: Uint8Array | null;
+}
+
+/**
+ * The key of one characteristic: the tool, the review settings, the date,
+ * the characteristic's settings, its ledger entries (with their lines, which
+ * its messages quote), what reading it reported and its data file's bytes.
+ */
+export function cacheKey(ws: Workspace, input: CharacteristicInput, asOf: IsoDate): string {
+  const { characteristics: _all, ...settings } = ws.config;
+  const h = createHash('sha256');
+  h.update(JSON.stringify([FORMAT, TOOL, asOf, settings, input.characteristic, input.ledger, input.diagnostics, [...input.laterLabels]]));
+  h.update('\u0000');
+  const data = ws.inputs.get(input.characteristic.data);
+  if (data) h.update(data);
+  return h.digest('hex');
+}
+
+export const entryPath = (key: string) => `${CACHE_DIR}/${key}.v8`;
+
+export const encodeEntry = (e: CacheEntry): Uint8Array => new Uint8Array(serialize(e));
+
+/** The entries an earlier build left in `packDir`, read on demand. */
+export function openCache(packDir: string): (key: string) => { entry: CacheEntry; bytes: Uint8Array } | undefined {
+  return (key) => {
+    let bytes: Uint8Array;
+    try {
+      bytes = new Uint8Array(readFileSync(path.join(packDir, entryPath(key))));
+    } catch {
+      return undefined;
+    }
+    try {
+      const entry = deserialize(bytes) as CacheEntry;
+      if (typeof entry !== 'object' || entry === null || typeof entry.assessment !== 'object') return undefined;
+      return { entry, bytes };
+    } catch {
+      return undefined;
+    }
+  };
+}
