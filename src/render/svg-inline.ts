@@ -5,7 +5,7 @@
  * stays light. hast serialisation escapes every string.
  */
 import type { Element, ElementContent } from 'hast';
-import { geom, printable } from '../format.ts';
+import { compactPath, geom, printable } from '../format.ts';
 import { FONT_FAMILY } from './fonts.ts';
 import type { Primitive, Scene } from './scene/types.ts';
 
@@ -26,7 +26,7 @@ function node(p: Primitive): Element {
       return el('rect', { x: geom(p.x), y: geom(p.y), width: geom(p.w), height: geom(p.h), fill: p.fill, ...(p.opacity !== undefined ? { fillOpacity: p.opacity } : {}) });
     case 'path':
       return el('path', {
-        d: p.d,
+        d: compactPath(p.d),
         fill: p.fill ?? 'none',
         ...(p.stroke ? { stroke: p.stroke.paint, strokeWidth: p.stroke.width, ...(p.stroke.dash ? { strokeDasharray: p.stroke.dash.join(' ') } : {}) } : {}),
         ...(p.opacity !== undefined ? { opacity: p.opacity } : {}),

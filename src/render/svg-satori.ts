@@ -14,7 +14,7 @@
  * same label gives the same bytes in every build.
  */
 import satori from 'satori';
-import { geom } from '../format.ts';
+import { compactPath, geom } from '../format.ts';
 import { FONT_FAMILY } from './fonts.ts';
 import type { Primitive, Scene } from './scene/types.ts';
 import { escapeXml } from './svg-inline.ts';
@@ -139,7 +139,7 @@ function geometryElement(p: Geometry): string {
   const stroke = p.stroke
     ? ` stroke="${escapeXml(p.stroke.paint)}" stroke-width="${p.stroke.width}"${p.stroke.dash ? ` stroke-dasharray="${p.stroke.dash.join(' ')}"` : ''}`
     : '';
-  return `<path d="${escapeXml(p.d)}" fill="${escapeXml(p.fill ?? 'none')}"${stroke}${p.opacity !== undefined ? ` opacity="${p.opacity}"` : ''}/>`;
+  return `<path d="${escapeXml(compactPath(p.d))}" fill="${escapeXml(p.fill ?? 'none')}"${stroke}${p.opacity !== undefined ? ` opacity="${p.opacity}"` : ''}/>`;
 }
 
 function labelElement(p: Text, labels: LabelPaths): string {
