@@ -67,6 +67,18 @@ function entries(m: ReadonlyMap<string, Uint8Array>) {
 
 export const chartFile = (id: string) => `charts/${id}.svg`;
 
+/**
+ * The analysis, with summary.json written at once and the comparison with
+ * the previous pack made: the summary object repeats every point of every
+ * chart, and a plant's is hundreds of megabytes of heap that nothing after
+ * this needs (its bytes live outside the heap), so it is not kept.
+ */
+function summarise(ws: Workspace, asOf: IsoDate, options: PackOptions, known: (i: number) => Assessment | undefined) {
+  const { summary, ...rest } = planSummary(ws, asOf, options.previousLedger, known);
+  const since = options.previous ? compareSummaries(options.previous, previousSummarySchema.parse(summary)) : undefined;
+  return { ...rest, summaryBytes: json(summary), since };
+}
+
 export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOptions = DEFAULT_OPTIONS): Promise<PlannedPack> {
   let clock = performance.now();
   const lap = (stage: string) => {
@@ -76,8 +88,8 @@ export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOption
   };
   const keys = options.cache ? ws.characteristics.map((c) => cacheKey(ws, c, asOf)) : [];
   const hits = keys.map((k) => options.cache?.(k));
-  const { assessments, summary, diagnostics, integrity, exitCode } = planSummary(ws, asOf, options.previousLedger, (i) => hits[i]?.entry.assessment);
-  lap('analysis');
+  const { assessments, diagnostics, integrity, exitCode, summaryBytes, since } = summarise(ws, asOf, options, (i) => hits[i]?.entry.assessment);
+  lap('analysis and summary.json');
   const inputs = entries(ws.inputs);
   // One hash over the input hashes: the pack's fingerprint of what it was built from.
   const fingerprint = sha256(encoder.encode(inputs.map((i) => `${i.sha256}  ${i.path}`).join('\n')));
@@ -120,7 +132,7 @@ export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOption
     chartFile,
     ...(options.audience ? { audience: options.audience } : {}),
     ...(integrity.rewrite ? { rewritten: rewriteSentence(integrity.rewrite) } : {}),
-    ...(options.previous ? { since: compareSummaries(options.previous, previousSummarySchema.parse(summary)) } : {}),
+    ...(since ? { since } : {}),
   });
   lap('tree');
   const packDiagnostics = [...diagnostics, ...pack.diagnostics];
@@ -153,8 +165,7 @@ export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOption
     files.set(chartFile(a.characteristic.id), encoder.encode(d.svg));
     if (options.png && d.png) files.set(`charts/${a.characteristic.id}.png`, d.png);
   }
-  files.set('summary.json', json(summary));
-  lap('summary.json');
+  files.set('summary.json', summaryBytes);
   files.set('manifest.json', json({ tool: TOOL, asOf, fingerprint, inputs, ledger: { ...integrity.chain, rewrites: integrity.rewrites }, outputs: entries(files) }));
   const cache = new Map<string, Uint8Array>();
   if (options.cache) {

@@ -197,10 +197,10 @@ describe('PDF drawing (pdf-lib)', () => {
     writeFileSync(file, bytes);
     const extracted = execFileSync('pdftotext', ['-layout', file, '-'], { encoding: 'utf8' });
     for (const t of ['Individuals and moving range chart', 'Individual value', 'Moving range', 'UCL', 'LCL', 'beyond a limit']) expect(extracted).toContain(t);
-    // Paths are drawn with PDF path operators (l = line to, c = curve to), not as an image.
+    // Paths are drawn with PDF path operators (l = line to, re = rectangle, c = curve to; ISO 32000-1 §8.5.2), not as an image.
     expect(Buffer.from(bytes).toString('latin1')).not.toMatch(/\/Subtype\s*\/Image/);
     const ops = streams(bytes).join('\n');
-    expect((ops.match(/ l\n/g) ?? []).length).toBeGreaterThan(100);
+    expect((ops.match(/ (l|re)\n/g) ?? []).length).toBeGreaterThan(100);
     expect((ops.match(/ c\n/g) ?? []).length).toBeGreaterThan(100);
   });
 });
