@@ -11,6 +11,7 @@ import { PDFArray, PDFDocument, type PDFFont, PDFName, type PDFPage, rgb } from 
 import { fontkit } from '../render/fontkit.ts';
 import { type PdfFonts, drawScene } from '../render/pdf-chart.ts';
 import { useNativeDeflate } from '../render/pdf-deflate.ts';
+import { PageInk } from '../render/pdf-ink.ts';
 import type { Scene } from '../render/scene/types.ts';
 import { plain } from './mdast.ts';
 
@@ -34,6 +35,7 @@ const INK = rgb(0.12, 0.12, 0.12);
 const MUTED = rgb(0.36, 0.36, 0.36);
 const RULE = rgb(0.8, 0.8, 0.8);
 const LINK = rgb(0, 0.376, 0.627);
+const CODE_BACKGROUND = rgb(0.953, 0.953, 0.941);
 
 interface Run {
   readonly text: string;
@@ -107,6 +109,12 @@ export async function toPdf(input: PdfInput): Promise<Uint8Array> {
   let page!: PDFPage;
   let y = 0;
 
+  const inks = new Map<PDFPage, PageInk>();
+  const ink = (p: PDFPage) => {
+    let k = inks.get(p);
+    if (!k) inks.set(p, (k = new PageInk(p)));
+    return k;
+  };
   const newPage = () => {
     page = doc.addPage([pageW, pageH]);
     pages.push(page);
@@ -201,7 +209,7 @@ export async function toPdf(input: PdfInput): Promise<Uint8Array> {
         j++;
       }
       const internal = run.link?.startsWith('#');
-      page.drawText(textOut, { x: lx, y: base, size, font: fontOf(run), color: internal ? LINK : color });
+      ink(page).text(textOut, lx, base, size, fontOf(run), internal ? LINK : color);
       if (internal) links.push({ page: pages.length - 1, rect: [lx, base - 2, lx + w, base + size], target: run.link!.slice(1) });
       lx += w + line[j - 1]!.space;
       i = j;
@@ -242,7 +250,7 @@ export async function toPdf(input: PdfInput): Promise<Uint8Array> {
     const used = flow(runsOf(h.children, true), MARGIN.left, width, size, size * 1.25);
     y -= used;
     if (h.depth === 2) {
-      page.drawLine({ start: { x: MARGIN.left, y: y - 2 }, end: { x: MARGIN.left + width, y: y - 2 }, thickness: 1.2, color: INK });
+      ink(page).line(MARGIN.left, y - 2, MARGIN.left + width, y - 2, 1.2, INK);
       y -= 12;
     } else y -= 4;
   };
@@ -264,7 +272,7 @@ export async function toPdf(input: PdfInput): Promise<Uint8Array> {
           const size = 9.5;
           const lines = wrap(runs, maxW - 12, size);
           ensure(Math.min(lines.length, 2) * size * 1.4);
-          page.drawText(l.ordered ? `${k + 1}.` : '•', { x, y: y - size * 0.95, size, font: regular, color: MUTED });
+          ink(page).text(l.ordered ? `${k + 1}.` : '•', x, y - size * 0.95, size, regular, MUTED);
           flowLines(lines, x + 12, size, size * 1.4);
           y -= 2;
         } else if (child.type === 'list') listBlock(child, x + 12, maxW - 12, false);
@@ -282,7 +290,7 @@ export async function toPdf(input: PdfInput): Promise<Uint8Array> {
     y -= 3;
     for (const line of lines) {
       ensure(lead);
-      page.drawRectangle({ x, y: y - lead - 1, width: maxW, height: lead + 2, color: rgb(0.953, 0.953, 0.941) });
+      ink(page).rect(x, y - lead - 1, maxW, lead + 2, CODE_BACKGROUND);
       drawLine(line, x + 6, y, size);
       y -= lead;
     }
@@ -332,7 +340,7 @@ export async function toPdf(input: PdfInput): Promise<Uint8Array> {
         cx += w;
       });
       y -= h;
-      page.drawLine({ start: { x, y }, end: { x: x + maxW, y }, thickness: header ? 0.9 : 0.4, color: header ? INK : RULE });
+      ink(page).line(x, y, x + maxW, y, header ? 0.9 : 0.4, header ? INK : RULE);
     };
     const [head, ...body] = rows;
     if (!head) return;
@@ -389,7 +397,7 @@ export async function toPdf(input: PdfInput): Promise<Uint8Array> {
         break;
       case 'thematicBreak':
         ensure(12);
-        page.drawLine({ start: { x, y: y - 6 }, end: { x: x + maxW, y: y - 6 }, thickness: 0.5, color: RULE });
+        ink(page).line(x, y - 6, x + maxW, y - 6, 0.5, RULE);
         y -= 12;
         break;
       case 'html':
@@ -410,7 +418,7 @@ export async function toPdf(input: PdfInput): Promise<Uint8Array> {
     const label = String(target.page + 1);
     const p = pages[line.page]!;
     // line.y is the top of the entry's line; its baseline sits 0.95 of the size below.
-    p.drawText(label, { x: MARGIN.left + width - widthOf(regular, label, 10.5), y: line.y - 10.5 * 0.95, size: 10.5, font: regular, color: INK });
+    ink(p).text(label, MARGIN.left + width - widthOf(regular, label, 10.5), line.y - 10.5 * 0.95, 10.5, regular, INK);
     links.push({ page: line.page, rect: [MARGIN.left, line.y - 14, MARGIN.left + width, line.y + 1], target: line.target });
   }
   for (const l of links) {
@@ -435,11 +443,12 @@ export async function toPdf(input: PdfInput): Promise<Uint8Array> {
   const footer = clean(input.title);
   pages.forEach((p, i) => {
     const n = `Page ${i + 1} of ${pages.length}`;
-    p.drawText(n, { x: MARGIN.left + width - widthOf(regular, n, 8), y: MARGIN.bottom - 26, size: 8, font: regular, color: MUTED });
+    ink(p).text(n, MARGIN.left + width - widthOf(regular, n, 8), MARGIN.bottom - 26, 8, regular, MUTED);
     const maxTitle = width - widthOf(regular, n, 8) - 20;
     let t = footer;
     while (t && widthOf(regular, t, 8) > maxTitle) t = t.slice(0, -2);
-    p.drawText(t === footer ? t : `${t}…`, { x: MARGIN.left, y: MARGIN.bottom - 26, size: 8, font: regular, color: MUTED });
+    ink(p).text(t === footer ? t : `${t}…`, MARGIN.left, MARGIN.bottom - 26, 8, regular, MUTED);
   });
+  for (const p of pages) inks.get(p)?.flush();
   return doc.save({ useObjectStreams: false });
 }

@@ -11,6 +11,7 @@
  * (its subset embedder encodes the text) and the page resources.
  */
 import { type PDFFont, type PDFPage, rgb } from 'pdf-lib';
+import { pdfNum as num } from './pdf-ink.ts';
 import type { Paint, Primitive, Scene } from './scene/types.ts';
 
 export interface PdfFonts {
@@ -21,13 +22,6 @@ export interface PdfFonts {
 export function paint(p: Paint) {
   const n = Number.parseInt(p.slice(1), 16);
   return rgb(((n >> 16) & 255) / 255, ((n >> 8) & 255) / 255, (n & 255) / 255);
-}
-
-/** A number for a content stream: at most three decimals, no exponent, no "-0". */
-function num(v: number): string {
-  if (!Number.isFinite(v)) throw new Error(`internal: non-finite PDF coordinate ${v}`);
-  const s = (Math.round(v * 1000) / 1000).toFixed(3).replace(/\.?0+$/, '');
-  return s === '-0' ? '0' : s;
 }
 
 /** The colour operands of a paint, 0–1 per channel. */

@@ -1,0 +1,54 @@
+/**
+ * What a PDF page says, as PDF operators (ISO 32000-1: §8.5 paths, §9.4
+ * text) collected in a buffer and written as one content stream: the cheap
+ * way to put tens of thousands of lines of text on a few thousand pages.
+ * pdf-lib's drawing calls build objects per operator and per number and add
+ * a font entry to the page for every string drawn; pdf-lib still owns the
+ * document, embeds the fonts and encodes the text (its subset embedder).
+ */
+import type { PDFFont, PDFPage, RGB } from 'pdf-lib';
+
+/** A number for a content stream: at most three decimals, no exponent, no "-0". */
+export function pdfNum(v: number): string {
+  if (!Number.isFinite(v)) throw new Error(`internal: non-finite PDF number ${v}`);
+  const s = (Math.round(v * 1000) / 1000).toFixed(3).replace(/\.?0+$/, '');
+  return s === '-0' ? '0' : s;
+}
+
+const rgbOperands = (c: RGB) => `${pdfNum(c.red)} ${pdfNum(c.green)} ${pdfNum(c.blue)}`;
+
+export class PageInk {
+  private readonly ops: string[] = [];
+  private readonly fontKeys = new Map<PDFFont, string>();
+
+  constructor(private readonly page: PDFPage) {}
+
+  private fontKey(f: PDFFont): string {
+    let k = this.fontKeys.get(f);
+    if (!k) this.fontKeys.set(f, (k = this.page.node.newFontDictionary(f.name, f.ref).toString()));
+    return k;
+  }
+
+  /** One line of text with its baseline starting at (x, y). */
+  text(text: string, x: number, y: number, size: number, font: PDFFont, color: RGB): void {
+    this.ops.push(`${rgbOperands(color)} rg BT ${this.fontKey(font)} ${pdfNum(size)} Tf 1 0 0 1 ${pdfNum(x)} ${pdfNum(y)} Tm ${font.encodeText(text).toString()} Tj ET`);
+  }
+
+  /** A filled rectangle; (x, y) is its lower-left corner. */
+  rect(x: number, y: number, w: number, h: number, color: RGB): void {
+    this.ops.push(`${rgbOperands(color)} rg ${pdfNum(x)} ${pdfNum(y)} ${pdfNum(w)} ${pdfNum(h)} re f`);
+  }
+
+  /** A straight stroke. */
+  line(x1: number, y1: number, x2: number, y2: number, thickness: number, color: RGB): void {
+    this.ops.push(`q ${rgbOperands(color)} RG ${pdfNum(thickness)} w ${pdfNum(x1)} ${pdfNum(y1)} m ${pdfNum(x2)} ${pdfNum(y2)} l S Q`);
+  }
+
+  /** Writes what was drawn as one content stream of the page (nothing if nothing was). */
+  flush(): void {
+    if (this.ops.length === 0) return;
+    const ctx = this.page.doc.context;
+    this.page.node.addContentStream(ctx.register(ctx.flateStream(`q\n${this.ops.join('\n')}\nQ\n`)));
+    this.ops.length = 0;
+  }
+}
