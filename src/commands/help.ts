@@ -69,7 +69,8 @@ Options:
       --png               also write charts/*.png (twice the chart size, for slides and e-mail)
       --only tag=NAME     a customer's pack: only the characteristics tagged NAME, with the
                           customer's name from review.yaml customers on the cover
-  -j, --jobs <n>          threads to use; charts are drawn on all but one (default: every core)
+  -j, --jobs <n>          threads for a build with --png: PNGs are drawn on all but one while the
+                          pages are laid out (default: every core)
       --no-cache          neither read nor leave the build cache
   -q, --quiet             print errors and the one-line result only
       --json              print the result as JSON on stdout

@@ -13,7 +13,7 @@ import { Worker } from 'node:worker_threads';
 import { loadFonts } from '../fonts.ts';
 import { svgToPng } from '../png.ts';
 import type { Scene } from '../scene/types.ts';
-import { renderStandaloneSvg } from '../svg-satori.ts';
+import { labelPathsFor, renderStandaloneSvg } from '../svg-satori.ts';
 
 export interface ChartJob {
   readonly id: string;
@@ -33,9 +33,14 @@ export const defaultJobs = (): number => availableParallelism();
 /** Charts a worker is sent at a time: enough to amortise a message, few enough to share the work out evenly. */
 const BATCH = 25;
 
+/** The labels of every chart in `jobs`. */
+export const labelsOf = (jobs: readonly ChartJob[]) => jobs.flatMap((j) => j.scene.items.filter((p) => p.kind === 'text'));
+
 async function drawHere(jobs: readonly ChartJob[], onDone: (n: number) => void): Promise<ChartResult[]> {
   const fonts = loadFonts();
   const out: ChartResult[] = [];
+  // Every new label in a few large satori calls, not one call per chart.
+  await labelPathsFor(fonts).prepare(labelsOf(jobs));
   for (const job of jobs) {
     const svg = await renderStandaloneSvg(job.scene, fonts);
     out.push({ id: job.id, svg, png: job.png ? svgToPng(svg, [fonts.regularPath, fonts.semiboldPath], job.scene.width * 2) : null });
