@@ -29,6 +29,8 @@ export interface PlannedPack {
   readonly files: ReadonlyMap<string, Uint8Array>;
   /** The build cache to leave in the pack folder (path → bytes); not part of the pack, not in the manifest. */
   readonly cache: ReadonlyMap<string, Uint8Array>;
+  /** Characteristics taken from the cache, and those analysed (and drawn) afresh. */
+  readonly cacheUse: { readonly reused: number; readonly redone: number };
   readonly assessments: readonly Assessment[];
   readonly diagnostics: readonly Diagnostic[];
   /** 0 when every characteristic was assessed, 1 otherwise. */
@@ -182,5 +184,6 @@ export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOption
     });
   }
   lap('manifest and cache');
-  return { files, cache, assessments, diagnostics: packDiagnostics, exitCode };
+  const reused = hits.filter((h) => h !== undefined).length;
+  return { files, cache, cacheUse: { reused, redone: assessments.length - reused }, assessments, diagnostics: packDiagnostics, exitCode };
 }

@@ -23,7 +23,11 @@ export function decimalsFor(magnitude: number, significant = 4): number {
 /** A coordinate in points, two decimals, no trailing zeros, no exponent. */
 export function geom(value: number): string {
   if (!Number.isFinite(value)) throw new Error(`internal: non-finite coordinate ${value}`);
-  const s = (Math.round(value * 100) / 100).toFixed(2).replace(/\.?0+$/, '');
+  const r = Math.round(value * 100) / 100;
+  // The shortest text that reads back as r is its two-decimal form without trailing zeros,
+  // which String gives directly (and fast; this runs for every coordinate), short of exponents.
+  if (Math.abs(r) < 1e15) return r === 0 ? '0' : String(r);
+  const s = r.toFixed(2).replace(/\.?0+$/, '');
   return s === '-0' ? '0' : s;
 }
 

@@ -174,7 +174,7 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
   });
   progress?.('');
   writePack(outDir, plan.files, plan.cache);
-  if (json) return io.out(resultJson('build', dir, plan.exitCode, plan.diagnostics, plan.assessments, { out: outDir, files: [...plan.files.keys()].sort(), comparedWith: previous?.asOf ?? null })), plan.exitCode;
+  if (json) return io.out(resultJson('build', dir, plan.exitCode, plan.diagnostics, plan.assessments, { out: outDir, files: [...plan.files.keys()].sort(), comparedWith: previous?.asOf ?? null, cache: values['no-cache'] === true ? null : plan.cacheUse })), plan.exitCode;
   printDiagnostics(io, plan.diagnostics, quiet);
   const counts = new Map<string, number>();
   for (const a of plan.assessments) {

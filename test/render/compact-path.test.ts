@@ -83,3 +83,19 @@ describe('compactPath', () => {
     expect(compactPath('M 0 0 A 5 5 0 0 1 10 0')).toBe('M 0 0 A 5 5 0 0 1 10 0');
   });
 });
+
+describe('geom', () => {
+  it('writes what toFixed(2) writes, less trailing zeros, for any coordinate (checked against Number.prototype.toFixed)', async () => {
+    const { geom } = await import('../../src/format.ts');
+    const reference = (v: number) => {
+      const s = (Math.round(v * 100) / 100).toFixed(2).replace(/\.?0+$/, '');
+      return s === '-0' ? '0' : s;
+    };
+    fc.assert(
+      fc.property(fc.oneof(fc.double({ min: -1e7, max: 1e7, noNaN: true }), fc.integer({ min: -1e9, max: 1e9 }).map((n) => n / 100), fc.constantFrom(0, -0, 0.005, -0.005, 1.005, 0.1 + 0.2, 1e-9, -1e-9)), (v) => {
+        expect(geom(v)).toBe(reference(v));
+      }),
+      { numRuns: 20_000 },
+    );
+  });
+});

@@ -1,0 +1,94 @@
+/**
+ * The incremental build cache and the worker threads: a rebuild after one
+ * data file changed redoes only that characteristic and writes the same
+ * pack, byte for byte, as a cold build of the same inputs; a damaged cache
+ * entry is redone, never trusted; the number of threads never changes a
+ * byte. Expected outputs are the cold builds themselves, made without cache.
+ */
+import { cpSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import { afterAll, describe, expect, it } from 'vitest';
+import { ROOT, cli, hashTree } from './helpers/cli.ts';
+
+const temp = mkdtempSync(path.join(tmpdir(), 'plumbline-cache-'));
+afterAll(() => rmSync(temp, { recursive: true, force: true }));
+
+const CACHE = '.plumbline-cache';
+const packOnly = (dir: string) => Object.fromEntries(Object.entries(hashTree(dir)).filter(([f]) => !f.startsWith(CACHE)));
+const cacheKeys = (dir: string) => readdirSync(path.join(dir, CACHE)).sort();
+const json = (r: { out: string }) => JSON.parse(r.out) as { exitCode: number; cache: { reused: number; redone: number } | null };
+
+describe('the build cache', () => {
+  const ws = path.join(temp, 'ws');
+  cpSync(path.join(ROOT, 'data/demo'), ws, { recursive: true });
+  const out = path.join(temp, 'out');
+  const before = path.join(temp, 'before');
+
+  it('redoes only the characteristic whose data changed, and writes what a cold build writes', () => {
+    const first = json(cli('build', ws, '--out', out, '--json'));
+    expect(first.cache).toEqual({ reused: 0, redone: 19 });
+    const keysBefore = cacheKeys(out);
+    expect(keysBefore).toHaveLength(19);
+    cpSync(out, before, { recursive: true });
+
+    // Unchanged inputs: everything comes from the cache.
+    const again = json(cli('build', ws, '--out', out, '--previous', before, '--json'));
+    expect(again.cache).toEqual({ reused: 19, redone: 0 });
+
+    // One reading of one characteristic corrected.
+    const file = path.join(ws, 'data/fill-volume.csv');
+    const rows = readFileSync(file, 'utf8').trimEnd().split('\n');
+    const [date, value] = rows.at(-1)!.split(',');
+    rows[rows.length - 1] = `${date},${(Number(value) + 0.4).toFixed(1)}`;
+    writeFileSync(file, `${rows.join('\n')}\n`);
+    const warm = json(cli('build', ws, '--out', out, '--previous', before, '--json'));
+    expect(warm.cache).toEqual({ reused: 18, redone: 1 });
+    const keysAfter = cacheKeys(out);
+    expect(keysAfter.filter((k) => !keysBefore.includes(k))).toHaveLength(1);
+    expect(keysBefore.filter((k) => !keysAfter.includes(k))).toHaveLength(1);
+
+    const cold = path.join(temp, 'cold');
+    const c = json(cli('build', ws, '--out', cold, '--previous', before, '--no-cache', '--json'));
+    expect(c.cache).toBeNull();
+    expect(packOnly(out)).toEqual(packOnly(cold));
+    expect(Object.keys(packOnly(out))).toContain('pack.pdf');
+    expect(readdirSync(cold)).not.toContain(CACHE);
+  }, 180_000);
+
+  it('redoes an entry it cannot read, and verify passes over the cache', () => {
+    const keys = cacheKeys(out);
+    writeFileSync(path.join(out, CACHE, keys[0]!), 'not a cache entry');
+    writeFileSync(path.join(out, CACHE, keys[1]!), new Uint8Array([0xff, 0x0f, 0x01, 0x02]));
+    const expected = packOnly(out);
+    const r = json(cli('build', ws, '--out', out, '--previous', before, '--json'));
+    expect(r.cache).toEqual({ reused: 17, redone: 2 });
+    expect(packOnly(out)).toEqual(expected);
+    expect(cli('verify', out).code).toBe(0);
+    // A file put into the pack itself is still caught.
+    writeFileSync(path.join(out, 'extra.txt'), 'x');
+    expect(cli('verify', out).code).toBe(1);
+  }, 180_000);
+});
+
+describe('threads', () => {
+  it('draws the same PNGs and pack with one thread as with three', () => {
+    const one = path.join(temp, 'jobs-1');
+    const three = path.join(temp, 'jobs-3');
+    expect(cli('build', path.join(ROOT, 'data/demo'), '--out', one, '--png', '--jobs', '1', '--no-cache', '-q').code).toBe(0);
+    expect(cli('build', path.join(ROOT, 'data/demo'), '--out', three, '--png', '--jobs', '3', '--no-cache', '-q').code).toBe(0);
+    const a = hashTree(one);
+    expect(Object.keys(a).filter((f) => f.endsWith('.png'))).toHaveLength(19);
+    expect(hashTree(three)).toEqual(a);
+  }, 180_000);
+
+  it('refuses a --jobs that is not a whole number from 1 to 256', () => {
+    for (const bad of ['0', '1.5', 'many', '257']) {
+      const r = cli('build', path.join(ROOT, 'data/demo'), '--out', path.join(temp, 'never'), '--jobs', bad);
+      expect(r.code).toBe(2);
+      expect(r.err).toMatch(/--jobs .* is not a number of threads/);
+    }
+    // A negative number reads as an option; the argument reader says so, as a usage error too.
+    expect(cli('build', path.join(ROOT, 'data/demo'), '--out', path.join(temp, 'never'), '--jobs', '-2').code).toBe(2);
+  });
+});
