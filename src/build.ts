@@ -9,8 +9,7 @@ import type { Diagnostic } from './diagnostics.ts';
 import type { IsoDate } from './model.ts';
 import { buildPackTree } from './pack/content.ts';
 import { jsonBytes } from './pack/json-bytes.ts';
-import { toHtml } from './pack/html.ts';
-import { toMarkdown } from './pack/markdown.ts';
+import { type PagesWorker, startPagesWorker, writeTextPagesHere } from './pack/text-pages.ts';
 import { type Paper, toPdf } from './pack/pdf.ts';
 import { loadFonts } from './render/fonts.ts';
 import { svgToPng } from './render/png.ts';
@@ -82,6 +81,16 @@ function summarise(ws: Workspace, asOf: IsoDate, options: PackOptions, known: (i
 }
 
 export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOptions = DEFAULT_OPTIONS): Promise<PlannedPack> {
+  const allowed = Math.max(1, Math.floor(options.jobs ?? defaultJobs()));
+  let pagesWorker: PagesWorker | undefined;
+  try {
+    return await plan(ws, asOf, options, allowed, () => (pagesWorker = startPagesWorker()));
+  } finally {
+    pagesWorker?.stop();
+  }
+}
+
+async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed: number, startWorker: () => PagesWorker): Promise<PlannedPack> {
   let clock = performance.now();
   const lap = (stage: string) => {
     const now = performance.now();
@@ -99,7 +108,7 @@ export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOption
   const metrics = createTextMetrics(fonts);
   const files = new Map<string, Uint8Array>();
 
-  // Scenes here (the pages need them); the drawing of each chart on the other threads, meanwhile.
+  // Scenes here (every page needs them); charts from the cache are not drawn again.
   const scenes = new Map<string, Scene>();
   const drawn = new Map<string, { svg: string; png: Uint8Array | null }>();
   const jobs: ChartJob[] = [];
@@ -115,14 +124,12 @@ export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOption
   let done = drawn.size;
   const total = scenes.size;
   options.progress?.('charts', done, total);
-  // Worker threads pay where the drawing is heavy: PNGs (resvg, about 50 ms a chart) drawn beside
-  // the pages took a 300-characteristic build from 39 s to 32 s on two cores. An SVG takes a few
-  // milliseconds, and a worker beside the main thread then cost more than it saved (1,000
-  // characteristics: 42 s against 38 s), so SVG-only builds draw in this thread.
-  const threads = options.png ? Math.max(1, Math.floor(options.jobs ?? defaultJobs())) : 1;
-  const charts = drawCharts(jobs, threads - 1, (n) => options.progress?.('charts', (done += n), total));
-  // In one thread the charts are drawn first; with workers the pages are laid out meanwhile.
-  if (threads === 1) {
+  // Threads. With two or more, index.md and index.html are written on a worker while this thread
+  // lays out the PDF (1,000 characteristics on two cores: 38–43 s → 35 s). PNGs (resvg, about 50 ms a
+  // chart) go to a pool of their own beside the pages (300 characteristics: 39 s → 32 s). SVGs stay
+  // here: on a worker beside the PDF, or started early beside the analysis, they slowed both down.
+  const charts = drawCharts(jobs, options.png ? allowed - 1 : 0, (n) => options.progress?.('charts', (done += n), total));
+  if (!(options.png && allowed > 1)) {
     await charts;
     lap('charts');
   }
@@ -142,10 +149,11 @@ export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOption
   });
   lap('tree');
   const packDiagnostics = [...diagnostics, ...pack.diagnostics];
-  files.set('index.md', encoder.encode(toMarkdown(pack.tree)));
-  lap('markdown');
-  files.set('index.html', encoder.encode(toHtml({ tree: pack.tree, title: ws.config.title, scenes, fonts })));
-  lap('html');
+  // Markdown and HTML on another thread when the build may use two, while this one lays out the PDF.
+  const pagesInput = { tree: pack.tree, title: ws.config.title, scenes };
+  const pagesWorker = allowed > 1 ? startWorker() : undefined;
+  const textPages = pagesWorker ? pagesWorker.run(pagesInput) : Promise.resolve(writeTextPagesHere(pagesInput));
+  lap(pagesWorker ? 'markdown and html sent' : 'markdown and html');
   options.progress?.('pages', 1, 2);
   files.set(
     'pack.pdf',
@@ -162,9 +170,13 @@ export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOption
     }),
   );
   lap('pdf');
+  const { md, html } = await textPages;
+  files.set('index.md', md);
+  files.set('index.html', html);
+  if (pagesWorker) lap('markdown and html (waiting for the worker)');
   options.progress?.('pages', 2, 2);
   for (const r of await charts) drawn.set(r.id, { svg: r.svg, png: r.png });
-  if (threads > 1) lap('charts (waiting for the workers)');
+  if (options.png && allowed > 1) lap('charts (waiting for the workers)');
   for (const a of assessments) {
     const d = drawn.get(a.characteristic.id);
     if (!d) continue;

@@ -1,0 +1,53 @@
+/**
+ * index.md and index.html, written on another thread when there is one to
+ * spare: both are serialisations of the pack tree (remark, rehype) that
+ * need nothing the PDF layout needs in turn, and on a plant's pack they
+ * take about as long as the PDF does, so the two run side by side.
+ */
+import { Worker } from 'node:worker_threads';
+import type { Root } from 'mdast';
+import { loadFonts } from '../render/fonts.ts';
+import type { Scene } from '../render/scene/types.ts';
+import { toHtml } from './html.ts';
+import { toMarkdown } from './markdown.ts';
+
+export interface TextPagesInput {
+  readonly tree: Root;
+  readonly title: string;
+  readonly scenes: ReadonlyMap<string, Scene>;
+}
+
+export interface TextPages {
+  readonly md: Uint8Array;
+  readonly html: Uint8Array;
+}
+
+const encoder = new TextEncoder();
+
+export function writeTextPagesHere(input: TextPagesInput): TextPages {
+  return {
+    md: encoder.encode(toMarkdown(input.tree)),
+    html: encoder.encode(toHtml({ tree: input.tree, title: input.title, scenes: input.scenes, fonts: loadFonts() })),
+  };
+}
+
+/** A worker for the pages: `run` hands it the pages to write, `stop` ends it (unused or not). */
+export interface PagesWorker {
+  run(input: TextPagesInput): Promise<TextPages>;
+  stop(): void;
+}
+
+export function startPagesWorker(): PagesWorker {
+  const worker = new Worker(new URL('./pages-worker.mjs', import.meta.url));
+  const stop = () => void worker.terminate();
+  return {
+    run: (input) =>
+      new Promise<TextPages>((resolve, reject) => {
+        worker.once('message', (pages: TextPages) => resolve(pages));
+        worker.once('error', reject);
+        worker.once('exit', (code) => reject(new Error(`the page worker stopped (exit code ${code})`)));
+        worker.postMessage(input);
+      }).finally(stop),
+    stop,
+  };
+}
