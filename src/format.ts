@@ -62,17 +62,19 @@ function tight(value: number): string {
 }
 
 /**
- * Scene path data (absolute M, L, C, Z, numbers two decimals apart at most)
+ * Scene path data (absolute M, L, Q, C, Z, numbers two decimals apart at most)
  * rewritten for an SVG file: relative moves after the first, numbers
  * without padding, a space only where a number would otherwise run into
  * the last. A chart of a thousand points is mostly its data line, and this
  * halves it. Each relative step is the difference of the rounded absolute
  * coordinates, so the points are exactly those of `d` rounded to 0.01 —
- * no drift along the line. Other path data is returned as it came.
+ * no drift along the line. Other path data is returned as it came. With
+ * `fillOnly` (glyph outlines, which are filled, never stroked), lines of
+ * length zero are left out.
  */
-export function compactPath(d: string): string {
-  const tokens = d.match(/[MLCZ]|-?\d*\.?\d+/g);
-  if (!tokens || /[^MLCZ\d\s.,-]/.test(d)) return d;
+export function compactPath(d: string, options: { readonly fillOnly?: boolean } = {}): string {
+  const tokens = d.match(/[MLQCZ]|-?\d*\.?\d+/g);
+  if (!tokens || /[^MLQCZ\d\s.,-]/.test(d)) return d;
   const r2 = (v: number) => Math.round(v * 100) / 100;
   let out = '';
   let cx = 0;
@@ -97,8 +99,8 @@ export function compactPath(d: string): string {
       last = 'z';
       continue;
     }
-    const pairs = cmd === 'C' ? 3 : 1;
-    if (cmd !== 'M' && cmd !== 'L' && cmd !== 'C') return d;
+    const pairs = cmd === 'C' ? 3 : cmd === 'Q' ? 2 : 1;
+    if (cmd !== 'M' && cmd !== 'L' && cmd !== 'Q' && cmd !== 'C') return d;
     const xs: number[] = [];
     for (let k = 0; k < pairs; k++) {
       const x = read();
@@ -106,6 +108,8 @@ export function compactPath(d: string): string {
       if (!Number.isFinite(x) || !Number.isFinite(y)) return d;
       xs.push(x, y);
     }
+    // A line to where the pen already is draws nothing in a filled outline (satori writes many).
+    if (options.fillOnly && cmd === 'L' && xs[0] === cx && xs[1] === cy) continue;
     if (cmd === 'M' && first) {
       out += 'M';
       num(xs[0]!);

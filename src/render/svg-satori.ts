@@ -116,19 +116,25 @@ export class LabelPaths {
   }
 }
 
-/** Moves satori's absolute path data from the batch canvas to the label's own origin (start, baseline). */
+/**
+ * Moves satori's absolute path data from the batch canvas to the label's
+ * own origin (start, baseline), then writes it compactly (relative steps,
+ * no zero-length lines). satori writes one decimal; the move is by a whole
+ * number, so no precision is lost.
+ */
 function toBaseline(d: string): string {
-  // satori writes absolute M/L/Q/C/Z commands with x,y pairs; only y moves. One decimal, as satori writes them.
+  // Absolute M/L/Q/C/Z commands with x,y pairs; only y moves.
   let y = false;
-  return d.replace(/[A-Za-z]|-?\d+(?:\.\d+)?/g, (t) => {
+  const moved = d.replace(/[A-Za-z]|-?\d*\.?\d+/g, (t) => {
     if (/[A-Za-z]/.test(t)) {
       y = false;
-      return t;
+      return ` ${t} `;
     }
     const v = y ? Math.round((Number(t) - BASELINE) * 10) / 10 : Number(t);
     y = !y;
-    return String(v === 0 ? 0 : v);
-  }).trim();
+    return ` ${v === 0 ? 0 : v}`;
+  });
+  return compactPath(moved.replace(/\s+/g, ' ').trim(), { fillOnly: true });
 }
 
 function geometryElement(p: Geometry): string {
@@ -146,7 +152,7 @@ function labelElement(p: Text, labels: LabelPaths): string {
   const left = p.anchor === 'start' ? p.x : p.anchor === 'middle' ? p.x - p.width / 2 : p.x - p.width;
   const d = labels.paths(p);
   if (d.length === 0) return '';
-  return `<path fill="${escapeXml(p.fill)}" transform="translate(${geom(left)} ${geom(p.y)})" d="${d.join(' ')}"/>`;
+  return `<path fill="${escapeXml(p.fill)}" transform="translate(${geom(left)} ${geom(p.y)})" d="${d.join('')}"/>`;
 }
 
 let shared: { key: SatoriFonts; labels: LabelPaths } | undefined;

@@ -11,7 +11,7 @@ import { compactPath } from '../../src/format.ts';
 
 /** Every coordinate pair the path visits, as absolute points, from any mix of M/m L/l C/c Z/z. */
 function absolutePoints(d: string): [number, number][] {
-  const tokens = d.match(/[MmLlCcZz]|-?(?:\d+\.?\d*|\.\d+)/g) ?? [];
+  const tokens = d.match(/[MmLlQqCcZz]|-?(?:\d+\.?\d*|\.\d+)/g) ?? [];
   const out: [number, number][] = [];
   let cmd = '';
   let cx = 0;
@@ -29,7 +29,7 @@ function absolutePoints(d: string): [number, number][] {
       continue;
     }
     const rel = cmd === cmd.toLowerCase();
-    const pairs = cmd.toLowerCase() === 'c' ? 3 : 1;
+    const pairs = cmd.toLowerCase() === 'c' ? 3 : cmd.toLowerCase() === 'q' ? 2 : 1;
     const pts: [number, number][] = [];
     for (let k = 0; k < pairs; k++) {
       const x = Number(tokens[i++]);
@@ -48,6 +48,7 @@ const pair = fc.tuple(coord, coord);
 const segment = fc.oneof(
   pair.map(([x, y]) => `L ${x} ${y}`),
   fc.tuple(pair, pair, pair).map((ps) => `C ${ps.flat().join(' ')}`),
+  fc.tuple(pair, pair).map((ps) => `Q ${ps.flat().join(' ')}`),
   pair.map(([x, y]) => `Z M ${x} ${y}`),
   pair.map(([x, y]) => `M ${x} ${y}`),
 );
@@ -67,6 +68,14 @@ describe('compactPath', () => {
       }),
       { numRuns: 500 },
     );
+  });
+
+  it('leaves out zero-length lines of a filled outline, and only those', () => {
+    // A glyph outline as satori writes it: a line to the current point after each curve.
+    const d = 'M 4.9 0.2 L 4.9 0.2 Q 3.7 0.2 2.7 -0.4 L 2.7 -0.4 L 1.8 -1 Z';
+    const kept = absolutePoints(compactPath(d, { fillOnly: true }));
+    expect(kept).toEqual([[4.9, 0.2], [3.7, 0.2], [2.7, -0.4], [1.8, -1]].map(([x, y]) => [expect.closeTo(x!, 9), expect.closeTo(y!, 9)]));
+    expect(absolutePoints(compactPath(d))).toHaveLength(6);
   });
 
   it('does not drift along a long line: the 1,000th point is still exact', () => {
