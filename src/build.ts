@@ -68,6 +68,9 @@ function entries(m: ReadonlyMap<string, Uint8Array>) {
 
 export const chartFile = (id: string) => `charts/${id}.svg`;
 
+/** Characteristics with more points than this are not kept in the build cache. */
+export const MAX_CACHED_POINTS = 100_000;
+
 /**
  * The analysis, with summary.json written at once and the comparison with
  * the previous pack made: the summary object repeats every point of every
@@ -188,6 +191,8 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   const cache = new Map<string, Uint8Array>();
   if (options.cache) {
     assessments.forEach((a, i) => {
+      // A very long series would cost more to keep (hundreds of megabytes) than to analyse again.
+      if (a.status === 'assessed' && a.samples.length > MAX_CACHED_POINTS) return;
       const hit = hits[i];
       const d = drawn.get(a.characteristic.id);
       // An entry read back unchanged is written back as read; a new or grown one (a PNG added) is encoded afresh.
