@@ -52,6 +52,8 @@ export interface PackOptions {
   readonly jobs?: number;
   /** Called with each stage's wall time as it ends (analysis, scenes, tree, markdown, html, pdf, charts, summary), for benchmarks. */
   readonly timing?: (stage: string, ms: number) => void;
+  /** Characteristics with more points are not cached (default MAX_CACHED_POINTS). */
+  readonly maxCachedPoints?: number;
   /** Entries of an earlier build's cache, by key; absent: no cache is read or written. */
   readonly cache?: (key: string) => { readonly entry: CacheEntry; readonly bytes: Uint8Array } | undefined;
 }
@@ -192,7 +194,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   if (options.cache) {
     assessments.forEach((a, i) => {
       // A very long series would cost more to keep (hundreds of megabytes) than to analyse again.
-      if (a.status === 'assessed' && a.samples.length > MAX_CACHED_POINTS) return;
+      if (a.status === 'assessed' && a.samples.length > (options.maxCachedPoints ?? MAX_CACHED_POINTS)) return;
       const hit = hits[i];
       const d = drawn.get(a.characteristic.id);
       // An entry read back unchanged is written back as read; a new or grown one (a PNG added) is encoded afresh.

@@ -92,3 +92,20 @@ describe('threads', () => {
     expect(cli('build', path.join(ROOT, 'data/demo'), '--out', path.join(temp, 'never'), '--jobs', '-2').code).toBe(2);
   });
 });
+
+describe('what the cache keeps', () => {
+  it('leaves out characteristics with more points than the limit, and keeps the rest', async () => {
+    const { planPack } = await import('../src/build.ts');
+    const { loadWorkspace } = await import('../src/workspace/load.ts');
+    const loaded = loadWorkspace(path.join(ROOT, 'data/demo'));
+    if (!loaded.ok) throw new Error('the demo does not load');
+    const ws = loaded.workspace;
+    const plan = await planPack(ws, ws.config.period.to, { paper: 'a4', png: false, jobs: 1, cache: () => undefined, maxCachedPoints: 40 });
+    const counts = plan.assessments.map((a) => (a.status === 'assessed' ? a.samples.length : 0));
+    // Counted from the assessments themselves: one entry per characteristic of at most 40 points.
+    expect(plan.cache.size).toBe(counts.filter((n) => n <= 40).length);
+    expect(plan.cache.size).toBeGreaterThan(0);
+    expect(plan.cache.size).toBeLessThan(19);
+    expect(plan.cacheUse).toEqual({ reused: 0, redone: 19 });
+  }, 120_000);
+});
