@@ -26,8 +26,12 @@ import type { Workspace } from './workspace/load.ts';
 export interface PlannedPack {
   /** Output path (relative to --out) → contents, in write order. */
   readonly files: ReadonlyMap<string, Uint8Array>;
-  /** The build cache to leave in the pack folder (path → bytes); not part of the pack, not in the manifest. */
-  readonly cache: ReadonlyMap<string, Uint8Array>;
+  /**
+   * The build cache to leave in the pack folder (path → bytes, made when
+   * written: a plant's cache is hundreds of megabytes, not worth holding at
+   * once); not part of the pack, not in the manifest.
+   */
+  readonly cache: ReadonlyMap<string, () => Uint8Array>;
   /** Characteristics taken from the cache, and those analysed (and drawn) afresh. */
   readonly cacheUse: { readonly reused: number; readonly redone: number };
   readonly assessments: readonly Assessment[];
@@ -190,7 +194,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   }
   files.set('summary.json', summaryBytes);
   files.set('manifest.json', json({ tool: TOOL, asOf, fingerprint, inputs, ledger: { ...integrity.chain, rewrites: integrity.rewrites }, outputs: entries(files) }));
-  const cache = new Map<string, Uint8Array>();
+  const cache = new Map<string, () => Uint8Array>();
   if (options.cache) {
     assessments.forEach((a, i) => {
       // A very long series would cost more to keep (hundreds of megabytes) than to analyse again.
@@ -198,8 +202,8 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
       const hit = hits[i];
       const d = drawn.get(a.characteristic.id);
       // An entry read back unchanged is written back as read; a new or grown one (a PNG added) is encoded afresh.
-      const bytes = hit && (!d || d.png === hit.entry.png || !d.png) ? hit.bytes : encodeEntry({ assessment: a, scene: scenes.get(a.characteristic.id) ?? null, svg: d?.svg ?? null, png: d?.png ?? null });
-      cache.set(entryPath(keys[i]!), bytes);
+      const scene = scenes.get(a.characteristic.id) ?? null;
+      cache.set(entryPath(keys[i]!), hit && (!d || d.png === hit.entry.png || !d.png) ? () => hit.bytes : () => encodeEntry({ assessment: a, scene, svg: d?.svg ?? null, png: d?.png ?? null }));
     });
   }
   lap('manifest and cache');

@@ -70,7 +70,7 @@ export function recoverInterrupted(outDir: string): string[] {
 }
 
 /** `extra`: files that go into the folder but are not the pack (the build cache). */
-export function writePack(outDir: string, files: ReadonlyMap<string, Uint8Array>, extra: ReadonlyMap<string, Uint8Array> = new Map()): void {
+export function writePack(outDir: string, files: ReadonlyMap<string, Uint8Array>, extra: ReadonlyMap<string, () => Uint8Array> = new Map()): void {
   const out = path.resolve(outDir);
   const parent = path.dirname(out);
   mkdirSync(parent, { recursive: true });
@@ -81,12 +81,14 @@ export function writePack(outDir: string, files: ReadonlyMap<string, Uint8Array>
   mkdirSync(temp);
   try {
     const made = new Set<string>();
-    for (const [name, bytes] of [...files, ...extra]) {
+    const put = (name: string, bytes: Uint8Array) => {
       const target = path.join(temp, name);
       const dir = path.dirname(target);
       if (!made.has(dir)) mkdirSync(dir, { recursive: true }), made.add(dir);
       writeFileSync(target, bytes);
-    }
+    };
+    for (const [name, bytes] of files) put(name, bytes);
+    for (const [name, make] of extra) put(name, make());
     const hadOld = existsSync(out);
     if (hadOld) renameSync(out, old);
     renameSync(temp, out);
