@@ -1,8 +1,9 @@
 /**
  * Drawing charts on other cores. The standalone SVG (satori) and the PNG
- * (resvg) of each chart need only its scene, so worker threads draw them
- * while the main thread lays out the pages, which need only the scenes too.
- * With one job everything is drawn in this thread, as before.
+ * (resvg) of each chart need only its scene, so worker threads can draw
+ * them while the main thread lays out the pages, which need only the scenes
+ * too. build.ts uses workers for PNG builds, where the drawing is heavy
+ * enough to pay for them; with none, everything is drawn in this thread.
  *
  * The output does not depend on the number of jobs: each chart's drawing
  * is a pure function of its scene (labels are laid out the same in any
