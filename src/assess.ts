@@ -13,9 +13,15 @@ import type { Workspace } from './workspace/load.ts';
 import { LEDGER_FILE } from './workspace/ledger-file.ts';
 
 /** `known(i)` may give the i-th characteristic's assessment from an earlier build (the build cache), so it is not redone. */
-export function assessAll(ws: Workspace, asOf: IsoDate, known: (index: number) => Assessment | undefined = () => undefined): Assessment[] {
-  return ws.characteristics.map((c, i) =>
-    known(i) ??
+export function assessAll(
+  ws: Workspace,
+  asOf: IsoDate,
+  known: (index: number) => Assessment | undefined = () => undefined,
+  progress: (done: number, total: number) => void = () => {},
+): Assessment[] {
+  return ws.characteristics.map((c, i) => {
+    progress(i, ws.characteristics.length);
+    return known(i) ??
     analyse({
       config: ws.config,
       characteristic: c.characteristic,
@@ -25,8 +31,8 @@ export function assessAll(ws: Workspace, asOf: IsoDate, known: (index: number) =
       ledgerFile: LEDGER_FILE,
       diagnostics: c.diagnostics,
       asOf,
-    }),
-  );
+    });
+  });
 }
 
 export function sha256(bytes: Uint8Array): string {
@@ -41,8 +47,14 @@ export function ledgerOf(ws: Workspace) {
 }
 
 /** The analysis alone: assessments, summary.json and diagnostics, without drawing anything (used by `check`). */
-export function planSummary(ws: Workspace, asOf: IsoDate, previousLedger?: PreviousLedger, known?: (index: number) => Assessment | undefined) {
-  const assessments = assessAll(ws, asOf, known);
+export function planSummary(
+  ws: Workspace,
+  asOf: IsoDate,
+  previousLedger?: PreviousLedger,
+  known?: (index: number) => Assessment | undefined,
+  progress?: (done: number, total: number) => void,
+) {
+  const assessments = assessAll(ws, asOf, known, progress);
   const { rows, chain } = ledgerOf(ws);
   const integrity = checkHistory(chain, rows, previousLedger, asOf);
   const history: Diagnostic[] = integrity.rewrite

@@ -84,7 +84,9 @@ export const MAX_CACHED_POINTS = 100_000;
  * this needs (its bytes live outside the heap), so it is not kept.
  */
 function summarise(ws: Workspace, asOf: IsoDate, options: PackOptions, known: (i: number) => Assessment | undefined) {
-  const { summary, ...rest } = planSummary(ws, asOf, options.previousLedger, known);
+  // Progress every 50 characteristics: a plant's analysis takes seconds.
+  const progress = (done: number, total: number) => (done % 50 === 0 ? options.progress?.('analysis', done, total) : undefined);
+  const { summary, ...rest } = planSummary(ws, asOf, options.previousLedger, known, progress);
   const since = options.previous ? compareSummaries(options.previous, previousSummarySchema.parse(summary)) : undefined;
   return { ...rest, summaryBytes: json(summary), since };
 }
