@@ -66,6 +66,8 @@ export const DEFAULT_OPTIONS: PackOptions = { paper: 'a4', png: false };
 
 const encoder = new TextEncoder();
 const json = jsonBytes;
+/** summary.json: one line per point (see jsonBytes). */
+const SUMMARY_LAYOUT = { itemPerLine: new Set(['points']) };
 const byPath = ([a]: [string, unknown], [b]: [string, unknown]) => (a < b ? -1 : a > b ? 1 : 0);
 
 function entries(m: ReadonlyMap<string, Uint8Array>) {
@@ -88,7 +90,7 @@ function summarise(ws: Workspace, asOf: IsoDate, options: PackOptions, known: (i
   const progress = (done: number, total: number) => (done % 50 === 0 ? options.progress?.('analysis', done, total) : undefined);
   const { summary, ...rest } = planSummary(ws, asOf, options.previousLedger, known, progress);
   const since = options.previous ? compareSummaries(options.previous, previousSummarySchema.parse(summary)) : undefined;
-  return { ...rest, summaryBytes: json(summary), since };
+  return { ...rest, summaryBytes: json(summary, SUMMARY_LAYOUT), since };
 }
 
 export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOptions = DEFAULT_OPTIONS): Promise<PlannedPack> {

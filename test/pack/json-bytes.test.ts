@@ -25,3 +25,30 @@ describe('jsonBytes', () => {
     expect(decode(jsonBytes(big))).toBe(reference(big));
   });
 });
+
+describe('jsonBytes with one item per line', () => {
+  const layout = { itemPerLine: new Set(['points']) };
+  it('writes the same JSON value, each listed array one item to a line, everything else as JSON.stringify(v, null, 2)', () => {
+    const value = {
+      format: 1,
+      characteristics: Array.from({ length: 3 }, (_, c) => ({
+        id: `c${c}`,
+        points: Array.from({ length: 3000 }, (_, i) => ({ label: `p${i}\n`, value: i / 7, signals: i % 3 ? [] : ['beyond-limits'], skip: undefined })),
+        dispersion: { points: [{ a: 1 }, null, 'x'] },
+        small: { points: [] },
+        baselines: [{ start: 'p0', limits: { center: 1 } }],
+      })),
+    };
+    const text = decode(jsonBytes(value, layout));
+    expect(JSON.parse(text)).toEqual(JSON.parse(JSON.stringify(value)));
+    const lines = text.split('\n');
+    // Every point is one line: 3 characteristics × 3,000 points, written as JSON.stringify writes one item.
+    expect(lines.filter((l) => l.startsWith('        {"label":'))).toHaveLength(9000);
+    expect(text).toContain(`        ${JSON.stringify({ label: 'p1\n', value: 1 / 7, signals: [] })},\n`);
+    expect(text).toContain('"points": [\n          {"a":1},\n          null,\n          "x"\n        ]');
+    expect(text).toContain('"small": {\n        "points": []\n      }');
+    // The rest is laid out as JSON.stringify with two spaces.
+    expect(text.startsWith('{\n  "format": 1,\n  "characteristics": [\n    {\n      "id": "c0",\n      "points": [\n')).toBe(true);
+    expect(text).toContain(JSON.stringify([{ start: 'p0', limits: { center: 1 } }], null, 2).replaceAll('\n', '\n      '));
+  });
+});
