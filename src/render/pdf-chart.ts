@@ -11,7 +11,7 @@
  * (its subset embedder encodes the text) and the page resources.
  */
 import { type PDFFont, type PDFPage, rgb } from 'pdf-lib';
-import { pdfNum as num } from './pdf-ink.ts';
+import { pdfNum as num, rgbOperands } from './pdf-ink.ts';
 import type { Paint, Primitive, Scene } from './scene/types.ts';
 
 export interface PdfFonts {
@@ -19,16 +19,11 @@ export interface PdfFonts {
   readonly semibold: PDFFont;
 }
 
-export function paint(p: Paint) {
-  const n = Number.parseInt(p.slice(1), 16);
-  return rgb(((n >> 16) & 255) / 255, ((n >> 8) & 255) / 255, (n & 255) / 255);
-}
-
 /** The colour operands of a paint, 0–1 per channel. */
-function rgbOf(p: Paint): string {
+const rgbOf = (p: Paint): string => {
   const n = Number.parseInt(p.slice(1), 16);
-  return `${num(((n >> 16) & 255) / 255)} ${num(((n >> 8) & 255) / 255)} ${num((n & 255) / 255)}`;
-}
+  return rgbOperands(rgb(((n >> 16) & 255) / 255, ((n >> 8) & 255) / 255, (n & 255) / 255));
+};
 
 /** Scene path data (absolute M, L, C, Z; see scene/types.ts) as path operators in page space. */
 function pathOps(d: string, tx: (x: number) => number, ty: (y: number) => number): string {

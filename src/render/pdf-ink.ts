@@ -15,7 +15,7 @@ export function pdfNum(v: number): string {
   return s === '-0' ? '0' : s;
 }
 
-const rgbOperands = (c: RGB) => `${pdfNum(c.red)} ${pdfNum(c.green)} ${pdfNum(c.blue)}`;
+export const rgbOperands = (c: RGB) => `${pdfNum(c.red)} ${pdfNum(c.green)} ${pdfNum(c.blue)}`;
 
 export class PageInk {
   private readonly ops: string[] = [];
