@@ -31,6 +31,7 @@ import { createTextMetrics } from '../src/render/scene/text-metrics.ts';
 import { LabelPaths, renderStandaloneSvg } from '../src/render/svg-satori.ts';
 import { inlineSvg } from '../src/render/svg-inline.ts';
 import { loadWorkspace } from '../src/workspace/load.ts';
+import { normalFrom, seeded } from '../src/stats/random.ts';
 import { writePlant } from './plant.ts';
 
 const N = Number(process.env.BENCH_CHARACTERISTICS ?? 1000);
@@ -152,9 +153,8 @@ const config: ReviewConfig = {
   customers: {},
   characteristics: [],
 };
-let seed = 7;
-const uniform = () => ((seed = (Math.imul(seed, 1664525) + 1013904223) >>> 0) / 4294967296);
-const normal = () => Math.sqrt(-2 * Math.log(1 - uniform())) * Math.cos(2 * Math.PI * uniform());
+const uniform = seeded(7);
+const normal = () => normalFrom(uniform);
 const day0 = Date.UTC(2024, 3, 6);
 const dates = Array.from({ length: CORE }, (_, k) => new Date(day0 + k * 86_400_000).toISOString().slice(0, 10) as IsoDate);
 const series = Array.from({ length: CORE }, () =>

@@ -8,18 +8,12 @@
  */
 import { mkdirSync, rmSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
+import { normalFrom, seeded } from '../src/stats/random.ts';
 
-/** mulberry32: a small, well-mixed 32-bit generator (the demo's, in TypeScript). */
+/** The core's seeded generator (mulberry32), with the draws the plant needs. */
 function rng(seed: number) {
-  let a = seed >>> 0;
-  const next = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  const normal = () => Math.sqrt(-2 * Math.log(1 - next())) * Math.cos(2 * Math.PI * next());
+  const next = seeded(seed);
+  const normal = () => normalFrom(next);
   const poisson = (mean: number) => {
     // Knuth's product method for small means, a rounded normal for large ones.
     if (mean > 30) return Math.max(0, Math.round(mean + Math.sqrt(mean) * normal()));
