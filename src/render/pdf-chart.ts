@@ -11,18 +11,18 @@
  * (its subset embedder encodes the text) and the page resources.
  */
 import { type PDFFont, type PDFPage, rgb } from 'pdf-lib';
-import { pdfNum as num, rgbOperands } from './pdf-ink.ts';
-import type { Paint, Primitive, Scene } from './scene/types.ts';
+import { PageInk, pdfNum as num } from './pdf-ink.ts';
+import type { Paint, Scene } from './scene/types.ts';
 
 export interface PdfFonts {
   readonly regular: PDFFont;
   readonly semibold: PDFFont;
 }
 
-/** The colour operands of a paint, 0–1 per channel. */
-const rgbOf = (p: Paint): string => {
+/** A paint (`#rrggbb`) as pdf-lib's colour, 0–1 per channel. */
+const rgbOf = (p: Paint) => {
   const n = Number.parseInt(p.slice(1), 16);
-  return rgbOperands(rgb(((n >> 16) & 255) / 255, ((n >> 8) & 255) / 255, (n & 255) / 255));
+  return rgb(((n >> 16) & 255) / 255, ((n >> 8) & 255) / 255, (n & 255) / 255);
 };
 
 /** Scene path data (absolute M, L, C, Z; see scene/types.ts) as path operators in page space. */
@@ -46,64 +46,38 @@ function pathOps(d: string, tx: (x: number) => number, ty: (y: number) => number
   return out.join('\n');
 }
 
-/** Draws `scene` with its top-left corner at (`x`, `top`) in page coordinates, scaled by `scale`. */
+/** Draws `scene` with its top-left corner at (`x`, `top`) in page coordinates, scaled by `scale`, as one content stream. */
 export function drawScene(page: PDFPage, scene: Scene, at: { x: number; top: number; scale: number }, fonts: PdfFonts): void {
   const { x, top, scale } = at;
   const tx = (v: number) => x + v * scale;
   const ty = (v: number) => top - v * scale;
-  const doc = page.doc;
-  const fontKeys = new Map<PDFFont, string>();
-  const fontKey = (f: PDFFont) => {
-    let k = fontKeys.get(f);
-    if (!k) fontKeys.set(f, (k = page.node.newFontDictionary(f.name, f.ref).toString()));
-    return k;
-  };
-  const alphaKeys = new Map<number, string>();
-  const alpha = (o: number) => {
-    let k = alphaKeys.get(o);
-    if (!k) {
-      const state = doc.context.obj({ Type: 'ExtGState', ca: o, CA: o });
-      alphaKeys.set(o, (k = page.node.newExtGState('GS', doc.context.register(state)).toString()));
-    }
-    return k;
-  };
-  const ops: string[] = ['q'];
-  const draw = (p: Primitive) => {
+  const ink = new PageInk(page);
+  for (const p of scene.items) {
     switch (p.kind) {
       case 'rect':
-        ops.push('q');
-        if (p.opacity !== undefined) ops.push(`${alpha(p.opacity)} gs`);
-        ops.push(`${rgbOf(p.fill)} rg`, `${num(tx(p.x))} ${num(ty(p.y + p.h))} ${num(p.w * scale)} ${num(p.h * scale)} re`, 'f', 'Q');
+        ink.path(`${num(tx(p.x))} ${num(ty(p.y + p.h))} ${num(p.w * scale)} ${num(p.h * scale)} re`, 'f', {
+          fill: rgbOf(p.fill),
+          ...(p.opacity !== undefined ? { opacity: p.opacity } : {}),
+        });
         break;
       case 'path': {
-        ops.push('q');
-        if (p.opacity !== undefined) ops.push(`${alpha(p.opacity)} gs`);
         // As pdf-lib's drawSvgPath: a path with neither fill nor stroke is filled black.
         const fill = p.fill ?? (p.stroke ? undefined : '#000000');
-        if (fill) ops.push(`${rgbOf(fill)} rg`);
-        if (p.stroke) {
-          ops.push(`${rgbOf(p.stroke.paint)} RG`, `${num(p.stroke.width * scale)} w`);
-          if (p.stroke.dash) ops.push(`[${p.stroke.dash.map((v) => num(v * scale)).join(' ')}] 0 d`);
-        }
-        ops.push(pathOps(p.d, tx, ty), fill && p.stroke ? 'B' : fill ? 'f' : 'S', 'Q');
+        ink.path(pathOps(p.d, tx, ty), fill && p.stroke ? 'B' : fill ? 'f' : 'S', {
+          ...(fill ? { fill: rgbOf(fill) } : {}),
+          ...(p.stroke
+            ? { stroke: rgbOf(p.stroke.paint), width: p.stroke.width * scale, ...(p.stroke.dash ? { dash: p.stroke.dash.map((v) => v * scale) } : {}) }
+            : {}),
+          ...(p.opacity !== undefined ? { opacity: p.opacity } : {}),
+        });
         break;
       }
       case 'text': {
         const left = p.anchor === 'start' ? p.x : p.anchor === 'middle' ? p.x - p.width / 2 : p.x - p.width;
-        const font = p.weight === 600 ? fonts.semibold : fonts.regular;
-        ops.push(
-          `${rgbOf(p.fill)} rg`,
-          'BT',
-          `${fontKey(font)} ${num(p.size * scale)} Tf`,
-          `1 0 0 1 ${num(tx(left))} ${num(ty(p.y))} Tm`,
-          `${font.encodeText(p.text).toString()} Tj`,
-          'ET',
-        );
+        ink.text(p.text, tx(left), ty(p.y), p.size * scale, p.weight === 600 ? fonts.semibold : fonts.regular, rgbOf(p.fill));
         break;
       }
     }
-  };
-  for (const p of scene.items) draw(p);
-  ops.push('Q');
-  page.node.addContentStream(doc.context.register(doc.context.flateStream(`${ops.join('\n')}\n`)));
+  }
+  ink.flush();
 }

@@ -20,8 +20,19 @@ export const rgbOperands = (c: RGB) => `${pdfNum(c.red)} ${pdfNum(c.green)} ${pd
 export class PageInk {
   private readonly ops: string[] = [];
   private readonly fontKeys = new Map<PDFFont, string>();
+  private readonly alphaKeys = new Map<number, string>();
 
   constructor(private readonly page: PDFPage) {}
+
+  /** The page's graphics-state resource for fill and stroke opacity `o`, made once per page and value. */
+  private alpha(o: number): string {
+    let k = this.alphaKeys.get(o);
+    if (!k) {
+      const ctx = this.page.doc.context;
+      this.alphaKeys.set(o, (k = this.page.node.newExtGState('GS', ctx.register(ctx.obj({ Type: 'ExtGState', ca: o, CA: o }))).toString()));
+    }
+    return k;
+  }
 
   private fontKey(f: PDFFont): string {
     let k = this.fontKeys.get(f);
@@ -42,6 +53,20 @@ export class PageInk {
   /** A straight stroke. */
   line(x1: number, y1: number, x2: number, y2: number, thickness: number, color: RGB): void {
     this.ops.push(`q ${rgbOperands(color)} RG ${pdfNum(thickness)} w ${pdfNum(x1)} ${pdfNum(y1)} m ${pdfNum(x2)} ${pdfNum(y2)} l S Q`);
+  }
+
+  /**
+   * Path operators already in page space (`m`, `l`, `c`, `re`, `h`), painted
+   * with `paint` ('f' fill, 'S' stroke, 'B' both) in its own graphics state.
+   */
+  path(construct: string, paint: 'f' | 'S' | 'B', style: { fill?: RGB; stroke?: RGB; width?: number; dash?: readonly number[]; opacity?: number }): void {
+    const ops = ['q'];
+    if (style.opacity !== undefined) ops.push(`${this.alpha(style.opacity)} gs`);
+    if (style.fill) ops.push(`${rgbOperands(style.fill)} rg`);
+    if (style.stroke) ops.push(`${rgbOperands(style.stroke)} RG`, `${pdfNum(style.width ?? 1)} w`);
+    if (style.dash) ops.push(`[${style.dash.map(pdfNum).join(' ')}] 0 d`);
+    ops.push(construct, paint, 'Q');
+    this.ops.push(ops.join('\n'));
   }
 
   /** Writes what was drawn as one content stream of the page (nothing if nothing was). */
