@@ -56,7 +56,7 @@ export function plural(n: number, word: string, many = `${word}s`): string {
 }
 
 /** A 2-decimal coordinate for compact path data: no leading zero, no trailing zeros ("0.50" → ".5", "-0.5" → "-.5"). */
-function tight(value: number): string {
+export function tight(value: number): string {
   const s = geom(value);
   return s.startsWith('0.') ? s.slice(1) : s.startsWith('-0.') ? `-${s.slice(2)}` : s;
 }
@@ -128,6 +128,81 @@ export function compactPath(d: string, options: { readonly fillOnly?: boolean } 
     first = false;
     cx = xs[xs.length - 2]!;
     cy = xs[xs.length - 1]!;
+    if (cmd === 'M') {
+      sx = cx;
+      sy = cy;
+    }
+  }
+  return out;
+}
+
+/** A whole number of tenths as `tight` writes the value: 5 → ".5", -12 → "-1.2", 30 → "3". */
+function tenthsText(n: number): string {
+  const a = n < 0 ? -n : n;
+  const whole = Math.floor(a / 10);
+  const tenth = a - whole * 10;
+  const s = tenth === 0 ? String(whole) : whole === 0 ? `.${tenth}` : `${whole}.${tenth}`;
+  return n < 0 ? `-${s}` : s;
+}
+
+/**
+ * `compactPath(d, { fillOnly: true })` for a path whose coordinates are all
+ * whole tenths, given as its commands (M, L, Q, C, Z) and its coordinates in
+ * tenths (x, y pairs): the same text, without writing the absolute path and
+ * reading it back. Glyph outlines are laid out this way thousands of times.
+ */
+export function compactTenths(commands: string, coords: ArrayLike<number>): string {
+  let out = '';
+  let cx = 0;
+  let cy = 0;
+  let sx = 0;
+  let sy = 0;
+  let at = 0;
+  let last = '';
+  let first = true;
+  let afterNumber = false;
+  const num = (n: number) => {
+    const s = tenthsText(n);
+    out += afterNumber && n >= 0 ? ` ${s}` : s;
+    afterNumber = true;
+  };
+  for (let i = 0; i < commands.length; i++) {
+    const cmd = commands[i]!;
+    if (cmd === 'Z') {
+      out += 'z';
+      cx = sx;
+      cy = sy;
+      last = 'z';
+      afterNumber = false;
+      continue;
+    }
+    const pairs = cmd === 'C' ? 3 : cmd === 'Q' ? 2 : 1;
+    const from = at;
+    at += 2 * pairs;
+    const ex = coords[at - 2]!;
+    const ey = coords[at - 1]!;
+    if (cmd === 'L' && ex === cx && ey === cy) continue;
+    if (cmd === 'M' && first) {
+      out += 'M';
+      afterNumber = false;
+      num(ex);
+      num(ey);
+      last = 'M';
+    } else {
+      const letter = cmd.toLowerCase();
+      if (letter !== last || letter === 'm') {
+        out += letter;
+        afterNumber = false;
+      }
+      for (let k = from; k < at; k += 2) {
+        num(coords[k]! - cx);
+        num(coords[k + 1]! - cy);
+      }
+      last = letter;
+    }
+    first = false;
+    cx = ex;
+    cy = ey;
     if (cmd === 'M') {
       sx = cx;
       sy = cy;

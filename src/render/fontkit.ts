@@ -16,6 +16,9 @@ export type FontkitFont = ReturnType<typeof ns.create>;
 
 const raw: FontkitModule = (ns as unknown as { default?: FontkitModule }).default ?? ns;
 
+/** fontkit without the remembered layouts: full shaping of every string, spaces included (kerning pairs with a space kept). */
+export const shapingFontkit: FontkitModule = raw;
+
 /** Word layouts kept per font; past this the memory is better spent elsewhere, and the map starts over. */
 const MAX_LAYOUTS = 200_000;
 

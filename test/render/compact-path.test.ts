@@ -7,41 +7,8 @@
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { compactPath } from '../../src/format.ts';
-
-/** Every coordinate pair the path visits, as absolute points, from any mix of M/m L/l C/c Z/z. */
-function absolutePoints(d: string): [number, number][] {
-  const tokens = d.match(/[MmLlQqCcZz]|-?(?:\d+\.?\d*|\.\d+)/g) ?? [];
-  const out: [number, number][] = [];
-  let cmd = '';
-  let cx = 0;
-  let cy = 0;
-  let sx = 0;
-  let sy = 0;
-  let i = 0;
-  while (i < tokens.length) {
-    if (/[A-Za-z]/.test(tokens[i]!)) cmd = tokens[i++]!;
-    else if (cmd === 'M') cmd = 'L';
-    else if (cmd === 'm') cmd = 'l';
-    if (cmd === 'Z' || cmd === 'z') {
-      cx = sx;
-      cy = sy;
-      continue;
-    }
-    const rel = cmd === cmd.toLowerCase();
-    const pairs = cmd.toLowerCase() === 'c' ? 3 : cmd.toLowerCase() === 'q' ? 2 : 1;
-    const pts: [number, number][] = [];
-    for (let k = 0; k < pairs; k++) {
-      const x = Number(tokens[i++]);
-      const y = Number(tokens[i++]);
-      pts.push(rel ? [cx + x, cy + y] : [x, y]);
-    }
-    out.push(...pts);
-    [cx, cy] = pts.at(-1)!;
-    if (cmd === 'M' || cmd === 'm') [sx, sy] = [cx, cy];
-  }
-  return out;
-}
+import { compactPath, compactTenths } from '../../src/format.ts';
+import { absolutePoints } from '../helpers/svg-path.ts';
 
 const coord = fc.integer({ min: -100_000, max: 100_000 }).map((n) => n / 100);
 const pair = fc.tuple(coord, coord);
@@ -90,6 +57,39 @@ describe('compactPath', () => {
     // By hand: 30 − 27.87 = 2.13, 145.27 − 149.91 = −4.64, and so on.
     expect(compactPath(d)).toBe('M27.87 149.91l2.13-4.64 2.13 28.14 2.14-55.23');
     expect(compactPath('M 0 0 A 5 5 0 0 1 10 0')).toBe('M 0 0 A 5 5 0 0 1 10 0');
+  });
+});
+
+describe('compactTenths', () => {
+  // Paths in whole tenths, as glyph outlines are: commands and coordinates apart, zero-length lines among them.
+  const tenths = fc.integer({ min: -20_000, max: 20_000 });
+  const step = fc.oneof(
+    fc.tuple(fc.constant('L'), tenths, tenths),
+    fc.tuple(fc.constant('L'), fc.constant(null), fc.constant(null)),
+    fc.tuple(fc.constant('Q'), tenths, tenths, tenths, tenths),
+    fc.tuple(fc.constant('C'), tenths, tenths, tenths, tenths, tenths, tenths),
+    fc.tuple(fc.constant('M'), tenths, tenths),
+    fc.constant(['Z'] as const),
+  );
+  it('writes exactly what compactPath (fillOnly) writes for the same absolute path, on any M/L/Q/C/Z outline in tenths', () => {
+    fc.assert(
+      fc.property(tenths, tenths, fc.array(step, { maxLength: 200 }), (x0, y0, steps) => {
+        let commands = 'M';
+        const coords: number[] = [x0, y0];
+        let absolute = `M ${x0 / 10} ${y0 / 10}`;
+        let [cx, cy] = [x0, y0];
+        for (const [cmd, ...ns] of steps) {
+          // A null line repeats the pen's place: the zero-length lines satori writes.
+          const xs = ns[0] === null ? [cx, cy] : (ns as number[]);
+          commands += cmd;
+          coords.push(...xs);
+          absolute += ` ${cmd} ${xs.map((n) => n / 10).join(' ')}`;
+          if (xs.length > 0) [cx, cy] = [xs.at(-2)!, xs.at(-1)!];
+        }
+        expect(compactTenths(commands, coords)).toBe(compactPath(absolute, { fillOnly: true }));
+      }),
+      { numRuns: 2000 },
+    );
   });
 });
 

@@ -23,6 +23,7 @@ import { LabelPaths, renderStandaloneSvg } from '../../src/render/svg-satori.ts'
 import { fonts, sceneOf, texts } from '../helpers/charts.ts';
 import { assess, assessed, ledgerCsv, pointsCsv } from '../helpers/in-memory.ts';
 import { streams } from '../helpers/pdf.ts';
+import { absolutePoints } from '../helpers/svg-path.ts';
 
 const temp = mkdtempSync(path.join(tmpdir(), 'plumbline-render-'));
 afterAll(() => rmSync(temp, { recursive: true, force: true }));
@@ -152,6 +153,19 @@ describe('standalone SVG: labels laid out once and reused', () => {
     expect(alone.paths(labels[1]!).join('')).toMatch(/^M[\d.]+ -?[\d.]+/);
     const scene = labelScene(labels);
     expect(await renderStandaloneSvg(scene, fonts, crowded)).toBe(await renderStandaloneSvg(scene, fonts, new LabelPaths(fonts)));
+  });
+
+  it('puts the baseline on the label\'s y and the capitals at the font\'s cap height, at every size the scene uses', async () => {
+    // "HL" sits on the baseline with flat tops at the cap height: 698 of 1,000 units in IBM Plex Sans's
+    // OS/2 table (read here with fontkit, the font's own figure). Sizes 10 and 7.5 once landed a point high.
+    const face = fontkit.create(fonts.regular);
+    for (const size of [7.5, 9, 9.5, 10, 14]) {
+      const svg = await renderStandaloneSvg(labelScene([{ x: 20, y: 50, text: 'HL', size, weight: 400 }]), fonts, new LabelPaths(fonts));
+      const m = /translate\(([\d.]+) ([\d.]+)\)" d="([^"]+)"/.exec(svg)!;
+      const ys = absolutePoints(m[3]!).map(([, y]) => y + Number(m[2]));
+      expect(Math.max(...ys)).toBeCloseTo(50, 5);
+      expect(Math.abs(Math.min(...ys) - (50 - (face.capHeight / face.unitsPerEm) * size))).toBeLessThanOrEqual(0.051);
+    }
   });
 
   it('draws nothing for an empty or blank label, and never a stray marker colour', async () => {
