@@ -55,9 +55,24 @@ function signalJson(a: Assessed, s: Signal) {
   };
 }
 
-function flaggedBy(signals: readonly Signal[], i: number): string[] {
-  const ids = signals.filter((s) => s.flagged.includes(i)).map((s) => s.rule);
-  return [...new Set(ids)].sort();
+const NONE: readonly string[] = [];
+
+/**
+ * For each point, the rules that flagged it (each once, sorted). Built in
+ * one pass over the signals: asking every signal about every point was
+ * quadratic, and a million-point series with its signals took minutes.
+ */
+function flaggedBy(signals: readonly Signal[]): (i: number) => readonly string[] {
+  const byPoint = new Map<number, Set<string>>();
+  for (const s of signals) {
+    for (const i of s.flagged) {
+      const rules = byPoint.get(i);
+      if (rules) rules.add(s.rule);
+      else byPoint.set(i, new Set([s.rule]));
+    }
+  }
+  const sorted = new Map([...byPoint].map(([i, rules]) => [i, [...rules].sort()]));
+  return (i) => sorted.get(i) ?? NONE;
 }
 
 function diagnosticJson(d: Diagnostic) {
@@ -68,6 +83,7 @@ function assessedJson(a: Assessed, period: ReviewConfig['period']) {
   const ch = a.characteristic;
   const fam = family(ch.chart);
   const label = (i: number) => a.samples[i]!.label;
+  const locationFlags = flaggedBy(a.location.signals);
   const points = a.samples.map((s, i) => {
     const l = a.location.limits[i] ?? null;
     return {
@@ -79,12 +95,13 @@ function assessedJson(a: Assessed, period: ReviewConfig['period']) {
       lcl: l?.lcl ?? null,
       sigma: l?.sigma ?? null,
       excluded: a.ledger.excluded.has(i),
-      signals: flaggedBy(a.location.signals, i),
+      signals: locationFlags(i),
       baseline: a.baselineOf[i]!,
       inPeriod: s.date >= period.from && s.date <= period.to,
       ...sizeOf(a, i),
     };
   });
+  const dispersionFlags = flaggedBy(a.dispersion?.signals ?? []);
   const dispersion = a.dispersion
     ? {
         statistic: fam.dispersionLabel,
@@ -97,7 +114,7 @@ function assessedJson(a: Assessed, period: ReviewConfig['period']) {
             center: l?.center ?? null,
             ucl: l?.ucl ?? null,
             lcl: l?.lcl ?? null,
-            signals: flaggedBy(a.dispersion!.signals, i),
+            signals: dispersionFlags(i),
           };
         }),
         signals: a.dispersion.signals.map((s) => signalJson(a, s)),
