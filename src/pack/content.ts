@@ -152,12 +152,33 @@ function estimatesText(a: Assessed): BlockContent[] {
   return parts.length ? [paragraph('Estimates behind the limits — ', parts.join('; '), '.')] : [];
 }
 
-function signalRows(a: Assessed, inPeriod: ReadonlySet<number>): (readonly Inline[] | string)[][] {
+/**
+ * Signals before the period listed in a characteristic's table: the latest
+ * ones. A long history signals from noise alone (a million minute readings
+ * gave thousands of rows); the rest are counted under the table and listed
+ * in summary.json. Every signal in the period is listed.
+ */
+export const EARLIER_SIGNAL_ROWS = 50;
+
+function signalRows(a: Assessed, inPeriod: ReadonlySet<number>): { rows: (readonly Inline[] | string)[][]; left: BlockContent[] } {
   // A point is named by its label, with its date where the label is something else (a lot or batch id).
   const name = (i: number) => (a.samples[i]!.label === a.samples[i]!.date ? a.samples[i]!.label : `${a.samples[i]!.label} (${a.samples[i]!.date})`);
-  return [...a.location.signals, ...(a.dispersion?.signals ?? [])]
-    .slice()
-    .sort((x, y) => x.flagged[0]! - y.flagged[0]! || (x.rule < y.rule ? -1 : 1))
+  const all = [...a.location.signals, ...(a.dispersion?.signals ?? [])].sort((x, y) => x.flagged[0]! - y.flagged[0]! || (x.rule < y.rule ? -1 : 1));
+  const earlier = all.filter((s) => !s.flagged.some((i) => inPeriod.has(i)));
+  const leftOut = new Set(earlier.slice(0, Math.max(0, earlier.length - EARLIER_SIGNAL_ROWS)));
+  const byRule = new Map<string, number>();
+  for (const s of leftOut) byRule.set(s.rule, (byRule.get(s.rule) ?? 0) + 1);
+  const left: BlockContent[] = leftOut.size
+    ? [
+        paragraph(
+          `Not listed: ${plural(leftOut.size, 'earlier signal')}, before the latest ${EARLIER_SIGNAL_ROWS} (`,
+          [...byRule].sort(([x], [y]) => (x < y ? -1 : 1)).map(([r, n]) => `${rule(r)?.short ?? r}: ${n}`).join(', '),
+          '); summary.json lists every signal.',
+        ),
+      ]
+    : [];
+  const rows = all
+    .filter((s) => !leftOut.has(s))
     .map((s) => {
       const first = s.points[0]!;
       const lastFlag = s.flagged[s.flagged.length - 1]!;
@@ -171,6 +192,7 @@ function signalRows(a: Assessed, inPeriod: ReadonlySet<number>): (readonly Inlin
         s.flagged.some((i) => inPeriod.has(i)) ? 'yes' : 'no',
       ];
     });
+  return { rows, left };
 }
 
 const num = fmtAuto;
@@ -297,8 +319,8 @@ function characteristicBlocks(a: Assessment, input: PackInput, diagnostics: Diag
       ],
       estimates: estimatesText(a),
       evidence: evidenceBlocks(a, rulesInWords(input.config)),
-      signals: sigRows.length
-        ? [table(['Rule', 'Panel', 'Points', 'Side', 'Persistence', 'Explained', 'In period'], sigRows)]
+      signals: sigRows.rows.length
+        ? [table(['Rule', 'Panel', 'Points', 'Side', 'Persistence', 'Explained', 'In period'], sigRows.rows), ...sigRows.left]
         : [paragraph('No rule fired on any baseline.')],
       exclusions: excluded.length
         ? [

@@ -14,7 +14,7 @@ import { unified } from 'unified';
 import { visit } from 'unist-util-visit';
 import { afterAll, describe, expect, it } from 'vitest';
 import type { Assessment } from '../../src/analyse.ts';
-import { buildPackTree } from '../../src/pack/content.ts';
+import { EARLIER_SIGNAL_ROWS, buildPackTree } from '../../src/pack/content.ts';
 import { toHtml } from '../../src/pack/html.ts';
 import { toMarkdown } from '../../src/pack/markdown.ts';
 import type { Templates } from '../../src/pack/template.ts';
@@ -56,6 +56,40 @@ const stable = (over: Partial<Assessment['characteristic']> = {}): Assessment =>
   const a = assess({ chart: 'individuals', csv: pointsCsv('date,value', Array.from({ length: 10 }, (_, i) => [10 + (i % 2 ? 0.3 : -0.3)])) });
   return { ...a, characteristic: { ...a.characteristic, ...over } } as Assessment;
 };
+
+describe('the signals table of a long history', () => {
+  // 400 daily points alternating 10 ± 0.3, with a spike to 30 every 5th point from the 30th: far beyond the
+  // limits of the first 20 (mean moving range 0.6, σ = 0.6/1.128 ≈ 0.53, UCL ≈ 11.6), each spike one
+  // beyond-limit signal of its own on the values chart (counted by construction: 75 spikes, 71 before the period).
+  const n = 400;
+  const spikes = Array.from({ length: n }, (_, i) => i).filter((i) => i >= 30 && i % 5 === 0);
+  const values = Array.from({ length: n }, (_, i) => (spikes.includes(i) ? 30 : 10 + (i % 2 ? 0.3 : -0.3)));
+  const period = { from: isoDay(380), to: isoDay(n - 1) };
+  // Limits frozen on the first 20 points, so the spikes do not widen them.
+  const ledger = ledgerCsv([`${isoDay(21)},x,freeze,20,Trial limits stable over 20 points,Q. Engineer`]);
+  const a = assess({ chart: 'individuals', csv: pointsCsv('date,value', values.map((v) => [v])), ledger, period });
+  const md = toMarkdown(tree([a], toolTemplates, { period }).tree);
+  const rows = md.split('\n').filter((l) => l.startsWith('| One point beyond a control limit') && l.includes('individual value'));
+
+  it('lists every signal in the period and only the latest earlier ones, and counts the rest by rule', () => {
+    if (a.status !== 'assessed') throw new Error('not assessed');
+    const beyond = a.location.signals.filter((s) => s.rule === 'beyond-limits');
+    expect(beyond.map((s) => s.flagged[0])).toEqual(spikes);
+    const inPeriod = (i: number) => i >= 380;
+    const all = [...a.location.signals, ...(a.dispersion?.signals ?? [])];
+    const earlier = all.filter((s) => !s.flagged.some(inPeriod));
+    const listedEarlier = Math.min(EARLIER_SIGNAL_ROWS, earlier.length);
+    const tableRows = md.split('\n').filter((l) => /^\| [A-Z0-9].* \| (yes|no) +\| (yes|no) +\|$/.test(l));
+    expect(tableRows).toHaveLength(all.length - earlier.length + listedEarlier);
+    // The beyond-limit rows: the four spikes in the period (380, 385, 390, 395) and the latest earlier ones.
+    expect(rows.at(-1)).toContain(`| ${spikes.at(-1)! + 1} (${isoDay(spikes.at(-1)!)})`);
+    const left = earlier.length - listedEarlier;
+    expect(left).toBeGreaterThan(0);
+    expect(md).toContain(`Not listed: ${left} earlier signals, before the latest ${EARLIER_SIGNAL_ROWS} (`);
+    const counted = /before the latest \d+ \(([^)]*)\)/.exec(md)![1]!.split(', ').map((p) => Number(p.split(': ')[1]));
+    expect(counted.reduce((x, y) => x + y, 0)).toBe(left);
+  });
+});
 
 describe('the tree', () => {
   it('never puts phrasing content at the root (it would run the Markdown together)', () => {
