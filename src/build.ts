@@ -19,7 +19,7 @@ import { createTextMetrics } from './render/scene/text-metrics.ts';
 import type { Scene } from './render/scene/types.ts';
 import { type ChartJob, defaultJobs, drawCharts } from './render/pool/chart-pool.ts';
 import { type CacheEntry, cacheKey, encodeEntry, entryPath } from './pack/build-cache.ts';
-import { type SummaryLike, compareSummaries, previousSummarySchema } from './review/since.ts';
+import { RECORD_FILE, type SummaryLike, compareSummaries, comparisonRecord } from './review/since.ts';
 import { TOOL } from './version.ts';
 import type { Workspace } from './workspace/load.ts';
 
@@ -46,7 +46,7 @@ export interface PackOptions {
   readonly png: boolean;
   /** Called as each stage finishes, for progress on long builds. */
   readonly progress?: (stage: string, done: number, total: number) => void;
-  /** The previous pack's summary.json, for the "Since the last review" section. */
+  /** The previous pack's comparison record (record.json, or its summary.json), for the "Since the last review" section. */
   readonly previous?: SummaryLike;
   /** The previous pack's manifest record of the ledger, to tell whether earlier rows were rewritten. */
   readonly previousLedger?: PreviousLedger;
@@ -89,8 +89,9 @@ function summarise(ws: Workspace, asOf: IsoDate, options: PackOptions, known: (i
   // Progress every 50 characteristics: a plant's analysis takes seconds.
   const progress = (done: number, total: number) => (done % 50 === 0 ? options.progress?.('analysis', done, total) : undefined);
   const { summary, ...rest } = planSummary(ws, asOf, options.previousLedger, known, progress);
-  const since = options.previous ? compareSummaries(options.previous, previousSummarySchema.parse(summary)) : undefined;
-  return { ...rest, summaryBytes: json(summary, SUMMARY_LAYOUT), since };
+  const record = comparisonRecord(summary);
+  const since = options.previous ? compareSummaries(options.previous, record) : undefined;
+  return { ...rest, summaryBytes: json(summary, SUMMARY_LAYOUT), recordBytes: json(record), since };
 }
 
 export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOptions = DEFAULT_OPTIONS): Promise<PlannedPack> {
@@ -112,7 +113,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   };
   const keys = options.cache ? ws.characteristics.map((c) => cacheKey(ws, c, asOf)) : [];
   const hits = keys.map((k) => options.cache?.(k));
-  const { assessments, diagnostics, integrity, exitCode, summaryBytes, since } = summarise(ws, asOf, options, (i) => hits[i]?.entry.assessment);
+  const { assessments, diagnostics, integrity, exitCode, summaryBytes, recordBytes, since } = summarise(ws, asOf, options, (i) => hits[i]?.entry.assessment);
   lap('analysis and summary.json');
   const inputs = entries(ws.inputs);
   // One hash over the input hashes: the pack's fingerprint of what it was built from.
@@ -197,6 +198,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     if (options.png && d.png) files.set(`charts/${a.characteristic.id}.png`, d.png);
   }
   files.set('summary.json', summaryBytes);
+  files.set(RECORD_FILE, recordBytes);
   files.set('manifest.json', json({ tool: TOOL, asOf, fingerprint, inputs, ledger: { ...integrity.chain, rewrites: integrity.rewrites }, outputs: entries(files) }));
   const cache = new Map<string, () => Uint8Array>();
   if (options.cache) {

@@ -11,7 +11,7 @@ import { rawExposure } from './review/rates.ts';
 import { TOOL } from './version.ts';
 import type { Integrity } from './review/ledger-chain.ts';
 
-export const SUMMARY_FORMAT = 1;
+export const SUMMARY_FORMAT = 1 as const;
 
 /** The counts behind a point's plotted value. */
 interface PointCounts {

@@ -130,6 +130,23 @@ describe('ledger accept and the rebuild that follows', () => {
     expect(r.code).toBe(2);
     expect(r.err).toMatch(/ledger\.csv has changed since/);
   });
+  it('compares through the previous pack\'s record.json, or through its summary.json when it has none, to the same pack', () => {
+    // Two copies of last month's pack: one as an older version wrote it (no record.json), one whose
+    // summary.json is unreadable, so that only its record.json can have been read.
+    const older = path.join(temp, 'accept-pack-older');
+    const recordOnly = path.join(temp, 'accept-pack-record');
+    cpSync(pack, older, { recursive: true });
+    rmSync(path.join(older, 'record.json'));
+    cpSync(pack, recordOnly, { recursive: true });
+    writeFileSync(path.join(recordOnly, 'summary.json'), 'not JSON');
+    const [a, b] = [path.join(temp, 'via-summary'), path.join(temp, 'via-record')];
+    expect(cli('build', ws, '--out', a, '--previous', older).code).toBe(0);
+    expect(cli('build', ws, '--out', b, '--previous', recordOnly).code).toBe(0);
+    for (const f of ['index.md', 'index.html', 'pack.pdf', 'record.json']) expect(sha(path.join(b, f)), f).toBe(sha(path.join(a, f)));
+    expect(readFileSync(path.join(b, 'index.md'), 'utf8')).toMatch(/freeze → keep/);
+    // The record is the small part of the summary the comparison reads.
+    expect(readFileSync(path.join(pack, 'record.json')).length * 10).toBeLessThan(readFileSync(path.join(pack, 'summary.json')).length);
+  });
   it('the rebuild compares itself with the pack already in --out: the freeze, the moved action and the new ledger row', () => {
     const r = cli('build', ws, '--out', pack);
     expect(r.code).toBe(0);
@@ -143,7 +160,7 @@ describe('ledger accept and the rebuild that follows', () => {
   it('--previous must point at a pack', () => {
     const r = cli('build', ws, '--out', path.join(temp, 'other'), '--previous', ws);
     expect(r.code).toBe(2);
-    expect(r.err).toMatch(/holds no summary\.json/);
+    expect(r.err).toMatch(/holds no record\.json or summary\.json/);
   });
 });
 

@@ -7,7 +7,7 @@ import type { PreviousLedger, RewriteRecord } from '../review/ledger-chain.ts';
 import type { Assessment } from '../analyse.ts';
 import { type Diagnostic, hasErrors } from '../diagnostics.ts';
 import { checkOutDir, recoverInterrupted, writePack } from '../pack/write.ts';
-import { type SummaryLike, previousSummarySchema } from '../review/since.ts';
+import { RECORD_FILE, type SummaryLike, comparisonRecord, previousSummarySchema } from '../review/since.ts';
 import { TOOL } from '../version.ts';
 import { isIsoDate } from '../workspace/dates.ts';
 import { loadWorkspace } from '../workspace/load.ts';
@@ -77,11 +77,16 @@ function readPreviousLedger(dir: string, asOf: string): PreviousLedger | undefin
   }
 }
 
-/** The previous pack's summary.json, read as untrusted input. */
+/**
+ * The previous pack's comparison record, read as untrusted input: its
+ * record.json, or its summary.json when it has none (a pack built before
+ * the record was written).
+ */
 function readPrevious(dir: string, explicit: boolean): SummaryLike | undefined {
-  const file = path.join(dir, 'summary.json');
+  const record = path.join(dir, RECORD_FILE);
+  const file = existsSync(record) ? record : path.join(dir, 'summary.json');
   if (!existsSync(file)) {
-    if (explicit) throw new UsageError(`--previous ${dir} holds no summary.json; give the folder of an earlier pack`);
+    if (explicit) throw new UsageError(`--previous ${dir} holds no ${RECORD_FILE} or summary.json; give the folder of an earlier pack`);
     return undefined;
   }
   let json: unknown;
@@ -99,9 +104,10 @@ function readPrevious(dir: string, explicit: boolean): SummaryLike | undefined {
   if (!parsed.success) {
     if (!explicit) return undefined;
     const issue = parsed.error.issues[0]!;
-    throw new UsageError(`${file} is not a plumbline summary (format 1): ${issue.path.join('.') || 'the top level'} ${issue.message}`);
+    throw new UsageError(`${file} is not a plumbline ${file === record ? 'comparison record' : 'summary'} (format 1): ${issue.path.join('.') || 'the top level'} ${issue.message}`);
   }
-  return parsed.data;
+  // Only what the comparison reads is kept: an old pack's summary.json may hold millions of points.
+  return comparisonRecord(parsed.data);
 }
 
 export async function build(args: readonly string[], io: Io): Promise<number> {

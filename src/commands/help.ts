@@ -56,7 +56,8 @@ Exit status: 0 no errors, 1 a characteristic has errors, 2 review.yaml is unusab
 
 Assesses every characteristic (limits, signals, a recommendation) and writes
 the review pack to <dir>: index.md with charts/*.svg, index.html, pack.pdf,
-summary.json and manifest.json. The folder is replaced whole, and only once
+summary.json, record.json (what the next build compares with) and
+manifest.json. The folder is replaced whole, and only once
 everything is ready. A build cache in <dir>/.plumbline-cache lets the next
 build redo only the characteristics whose inputs changed; it is not part of
 the pack (the manifest does not list it, verify passes over it).

@@ -28,6 +28,37 @@ export const previousSummarySchema = z.looseObject({
 
 export type SummaryLike = z.infer<typeof previousSummarySchema>;
 
+/** The pack file holding a build's comparison record. */
+export const RECORD_FILE = 'record.json';
+
+/**
+ * What the next build compares with, cut from a summary: for each
+ * characteristic its status, action, signals, ledger history and the last
+ * point that has limits (the only point the comparison reads). It is itself
+ * a summary as the comparison reads one. A plant's summary.json is tens of
+ * megabytes and a million-point one hundreds; reading it back whole made
+ * the next month's build slower and larger than the first.
+ */
+export function comparisonRecord(summary: SummaryLike): SummaryLike {
+  return {
+    format: summary.format,
+    asOf: summary.asOf,
+    period: { from: summary.period.from, to: summary.period.to },
+    characteristics: summary.characteristics.map((c) => {
+      const last = lastLimits(c);
+      return {
+        id: c.id,
+        name: c.name,
+        status: c.status,
+        points: last ? [{ label: last.label, center: last.center, ucl: last.ucl, lcl: last.lcl }] : [],
+        signals: c.signals.map((s) => ({ rule: s.rule, panel: s.panel, points: s.points, flagged: s.flagged })),
+        recommendation: c.recommendation ? { action: c.recommendation.action } : null,
+        ...(c.history ? { history: c.history.map((e) => ({ date: e.date, action: e.action, point: e.point, reason: e.reason, by: e.by })) } : {}),
+      };
+    }),
+  };
+}
+
 export interface LimitMove {
   readonly id: string;
   readonly name: string;
