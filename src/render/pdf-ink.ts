@@ -11,8 +11,12 @@ import type { PDFFont, PDFPage, RGB } from 'pdf-lib';
 /** A number for a content stream: at most three decimals, no exponent, no "-0". */
 export function pdfNum(v: number): string {
   if (!Number.isFinite(v)) throw new Error(`internal: non-finite PDF number ${v}`);
-  const s = (Math.round(v * 1000) / 1000).toFixed(3).replace(/\.?0+$/, '');
-  return s === '-0' ? '0' : s;
+  const r = Math.round(v * 1000) / 1000;
+  // r is the double nearest k/1000, so its shortest decimal (String) is k/1000 without trailing
+  // zeros, what toFixed(3) less its zeros gives, at a fraction of the cost; String writes an
+  // exponent only from 1e21, where toFixed takes over.
+  if (Math.abs(r) < 1e21) return r === 0 ? '0' : String(r);
+  return r.toFixed(3).replace(/\.?0+$/, '');
 }
 
 export const rgbOperands = (c: RGB) => `${pdfNum(c.red)} ${pdfNum(c.green)} ${pdfNum(c.blue)}`;

@@ -108,3 +108,19 @@ describe('geom', () => {
     );
   });
 });
+
+describe('pdfNum', () => {
+  it('writes what toFixed(3) writes, less trailing zeros, for any number (checked against Number.prototype.toFixed)', async () => {
+    const { pdfNum } = await import('../../src/render/pdf-ink.ts');
+    const reference = (v: number) => {
+      const s = (Math.round(v * 1000) / 1000).toFixed(3).replace(/\.?0+$/, '');
+      return s === '-0' ? '0' : s;
+    };
+    fc.assert(
+      fc.property(fc.oneof(fc.double({ min: -1e7, max: 1e7, noNaN: true }), fc.integer({ min: -1e9, max: 1e9 }).map((n) => n / 1000), fc.constantFrom(0, -0, 0.0005, -0.0005, 1.0005, 0.1 + 0.2, 1e-9, -1e-9, 1e22)), (v) => {
+        expect(pdfNum(v)).toBe(reference(v));
+      }),
+      { numRuns: 20_000 },
+    );
+  });
+});
