@@ -110,7 +110,7 @@ const fonts = loadFonts();
 const metrics = createTextMetrics(fonts);
 const assessed = plan.assessments.filter((a) => a.status === 'assessed');
 const sample = assessed.filter((_, i) => i % Math.max(1, Math.floor(assessed.length / 200)) === 0);
-const times = { scene: [] as number[], 'svg (satori, labels cached)': [] as number[], 'svg (satori, fresh labels)': [] as number[], 'inline svg (html)': [] as number[], png: [] as number[], pdf: [] as number[] };
+const times = { scene: [] as number[], 'svg (satori, labels cached)': [] as number[], 'svg (satori, first chart: glyphs laid out)': [] as number[], 'inline svg (html)': [] as number[], png: [] as number[], pdf: [] as number[] };
 const doc = await PDFDocument.create({ updateMetadata: false });
 doc.registerFontkit(fontkit);
 const pdfFonts = { regular: await doc.embedFont(fonts.regular, { subset: true }), semibold: await doc.embedFont(fonts.semibold, { subset: true }) };
@@ -121,7 +121,7 @@ for (const a of sample) {
   times.scene.push(performance.now() - s);
   s = performance.now();
   await renderStandaloneSvg(scene, fonts, new LabelPaths(fonts));
-  times['svg (satori, fresh labels)'].push(performance.now() - s);
+  times['svg (satori, first chart: glyphs laid out)'].push(performance.now() - s);
   await renderStandaloneSvg(scene, fonts, shared);
   s = performance.now();
   const svg = await renderStandaloneSvg(scene, fonts, shared);

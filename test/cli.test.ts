@@ -27,7 +27,7 @@ describe('plumbline CLI', () => {
     expect(r.code).toBe(0);
     expect(r.out).toMatch(/Built 10 characteristics/);
     // The pack, and the build cache beside it (not part of the pack; see test/build-cache.test.ts).
-    expect(readdirSync(out).sort()).toEqual(['.plumbline-cache', 'charts', 'index.html', 'index.md', 'manifest.json', 'pack.pdf', 'summary.json']);
+    expect(readdirSync(out).sort()).toEqual(['.plumbline-cache', 'charts', 'index.html', 'index.md', 'manifest.json', 'pack.pdf', 'record.json', 'summary.json']);
     expect(hashTree(FIXTURE)).toEqual(before);
   });
   it('building twice gives byte-identical files: pack.pdf, index.html, index.md, charts, summary.json, manifest.json', () => {

@@ -37,12 +37,22 @@ export interface PagesWorker {
   stop(): void;
 }
 
+/**
+ * Starts the worker at once: loading its modules (remark, rehype, through
+ * tsx) takes about a second, which it spends beside the analysis when
+ * started with the build. A failure before `run` is kept for `run` to report.
+ */
 export function startPagesWorker(): PagesWorker {
   const worker = new Worker(new URL('./pages-worker.mjs', import.meta.url));
+  let failed: Error | undefined;
+  const early = (e: Error) => (failed = e);
+  worker.on('error', early);
   const stop = () => void worker.terminate();
   return {
     run: (input) =>
       new Promise<TextPages>((resolve, reject) => {
+        if (failed) return reject(failed);
+        worker.off('error', early);
         worker.once('message', (pages: TextPages) => resolve(pages));
         worker.once('error', reject);
         worker.once('exit', (code) => reject(new Error(`the page worker stopped (exit code ${code})`)));

@@ -45,9 +45,9 @@ beforeAll(async () => {
 });
 
 describe('the pack holds every output of the contract', () => {
-  it('index.md, index.html, pack.pdf, summary.json, manifest.json and one SVG chart per characteristic', () => {
+  it('index.md, index.html, pack.pdf, summary.json, record.json, manifest.json and one SVG chart per characteristic', () => {
     const files = [...plan.files.keys()].sort();
-    expect(files).toEqual([...ids.map((id) => `charts/${id}.svg`).sort(), 'index.html', 'index.md', 'manifest.json', 'pack.pdf', 'summary.json'].sort());
+    expect(files).toEqual([...ids.map((id) => `charts/${id}.svg`).sort(), 'index.html', 'index.md', 'manifest.json', 'pack.pdf', 'record.json', 'summary.json'].sort());
   });
   it('manifest.json lists every other output with its SHA-256 (recomputed here with node:crypto)', () => {
     const manifest = JSON.parse(text(plan.files.get('manifest.json')));
