@@ -12,11 +12,11 @@
  * and weight) is laid out by satori once, at one point per font unit, and a
  * label is its glyphs' outlines scaled, placed at fontkit's pen positions
  * (the same advances and kerning as satori's shaper, and those the scene
- * measured with) and rounded as satori rounds. A label
- * whose text does not map one character to one glyph (a ligature, a
- * character missing from the font, collapsed white space) is laid out by
- * satori whole, as before. Glyphs and whole labels are laid out many to a
- * call, all at the same origin, each in its own marker colour, so a label's
+ * measured with) and rounded as satori rounds. A ligature is laid out as
+ * its characters together. A label whose glyphs do not spell it (a
+ * character missing from the font) or whose white space satori would
+ * collapse is laid out whole, at the same scale. Glyphs and whole labels
+ * are laid out many to a call, all at the same origin, each in its own marker colour, so a label's
  * paths never depend on which others shared its batch: the same label gives
  * the same bytes in every build.
  */
