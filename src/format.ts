@@ -20,15 +20,25 @@ export function decimalsFor(magnitude: number, significant = 4): number {
   return Math.max(0, Math.min(6, significant - digits));
 }
 
+/**
+ * `value` rounded to `places` decimals, written as toFixed writes it less
+ * trailing zeros, never "-0" or an exponent. The rounded value is the double
+ * nearest k/10^places, so while doubles there are far finer than 10^-places
+ * (below 2^50/10^places) its shortest decimal, which String gives fast, is
+ * exactly that text; toFixed, exact but slow, takes over beyond.
+ */
+export function decimalText(value: number, places: number): string {
+  const scale = 10 ** places;
+  const r = Math.round(value * scale) / scale;
+  if (Math.abs(r) < 2 ** 50 / scale) return r === 0 ? '0' : String(r);
+  const s = r.toFixed(places).replace(/\.?0+$/, '');
+  return s === '-0' ? '0' : s;
+}
+
 /** A coordinate in points, two decimals, no trailing zeros, no exponent. */
 export function geom(value: number): string {
   if (!Number.isFinite(value)) throw new Error(`internal: non-finite coordinate ${value}`);
-  const r = Math.round(value * 100) / 100;
-  // The shortest text that reads back as r is its two-decimal form without trailing zeros,
-  // which String gives directly (and fast; this runs for every coordinate), short of exponents.
-  if (Math.abs(r) < 1e15) return r === 0 ? '0' : String(r);
-  const s = r.toFixed(2).replace(/\.?0+$/, '');
-  return s === '-0' ? '0' : s;
+  return decimalText(value, 2);
 }
 
 /** A percentage for a reader, e.g. 0.0123 → "1.23%". */

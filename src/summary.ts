@@ -63,16 +63,16 @@ const NONE: readonly string[] = [];
  * quadratic, and a million-point series with its signals took minutes.
  */
 function flaggedBy(signals: readonly Signal[]): (i: number) => readonly string[] {
-  const byPoint = new Map<number, Set<string>>();
+  const byPoint = new Map<number, string[]>();
   for (const s of signals) {
     for (const i of s.flagged) {
       const rules = byPoint.get(i);
-      if (rules) rules.add(s.rule);
-      else byPoint.set(i, new Set([s.rule]));
+      if (!rules) byPoint.set(i, [s.rule]);
+      else if (!rules.includes(s.rule)) rules.push(s.rule);
     }
   }
-  const sorted = new Map([...byPoint].map(([i, rules]) => [i, [...rules].sort()]));
-  return (i) => sorted.get(i) ?? NONE;
+  for (const rules of byPoint.values()) rules.sort();
+  return (i) => byPoint.get(i) ?? NONE;
 }
 
 function diagnosticJson(d: Diagnostic) {

@@ -7,16 +7,12 @@
  * document, embeds the fonts and encodes the text (its subset embedder).
  */
 import type { PDFFont, PDFPage, RGB } from 'pdf-lib';
+import { decimalText } from '../format.ts';
 
 /** A number for a content stream: at most three decimals, no exponent, no "-0". */
 export function pdfNum(v: number): string {
   if (!Number.isFinite(v)) throw new Error(`internal: non-finite PDF number ${v}`);
-  const r = Math.round(v * 1000) / 1000;
-  // r is the double nearest k/1000, so its shortest decimal (String) is k/1000 without trailing
-  // zeros, what toFixed(3) less its zeros gives, at a fraction of the cost; String writes an
-  // exponent only from 1e21, where toFixed takes over.
-  if (Math.abs(r) < 1e21) return r === 0 ? '0' : String(r);
-  return r.toFixed(3).replace(/\.?0+$/, '');
+  return decimalText(v, 3);
 }
 
 export const rgbOperands = (c: RGB) => `${pdfNum(c.red)} ${pdfNum(c.green)} ${pdfNum(c.blue)}`;
