@@ -1,8 +1,7 @@
 #!/usr/bin/env node
-// Runs the TypeScript sources directly through tsx, so `npx plumbline` works
-// right after `npm ci` with no build step.
-import { register } from 'tsx/esm/api';
+// `npx plumbline` runs right after `npm ci`: from dist/ when compiled and
+// fresh, otherwise from the TypeScript sources (see load-cli.mjs).
+import { loadCli } from './load-cli.mjs';
 
-register();
-const { main } = await import('../src/cli.ts');
+const main = await loadCli();
 process.exitCode = await main(process.argv.slice(2));

@@ -10,6 +10,7 @@ import { loadFonts } from '../render/fonts.ts';
 import type { Scene } from '../render/scene/types.ts';
 import { toHtml } from './html.ts';
 import { toMarkdown } from './markdown.ts';
+import { workerEntry } from '../worker-entry.ts';
 
 export interface TextPagesInput {
   readonly tree: Root;
@@ -43,7 +44,7 @@ export interface PagesWorker {
  * started with the build. A failure before `run` is kept for `run` to report.
  */
 export function startPagesWorker(): PagesWorker {
-  const worker = new Worker(new URL('./pages-worker.mjs', import.meta.url));
+  const worker = new Worker(workerEntry(import.meta.url, 'pages-worker'));
   let failed: Error | undefined;
   const early = (e: Error) => (failed = e);
   worker.on('error', early);

@@ -15,6 +15,7 @@ import { loadFonts } from '../fonts.ts';
 import { svgToPng } from '../png.ts';
 import type { Scene } from '../scene/types.ts';
 import { labelPathsFor, renderStandaloneSvg } from '../svg-satori.ts';
+import { workerEntry } from '../../worker-entry.ts';
 
 export interface ChartJob {
   readonly id: string;
@@ -60,7 +61,7 @@ export async function drawCharts(jobs: readonly ChartJob[], workers: number, onD
   for (let i = 0; i < jobs.length; i += BATCH) batches.push(jobs.slice(i, i + BATCH));
   const results: ChartResult[][] = new Array(batches.length);
   let next = 0;
-  const pool = Array.from({ length: Math.min(workers, batches.length) }, () => new Worker(new URL('./chart-worker.mjs', import.meta.url)));
+  const pool = Array.from({ length: Math.min(workers, batches.length) }, () => new Worker(workerEntry(import.meta.url, 'chart-worker')));
   try {
     await Promise.all(
       pool.map(
