@@ -216,6 +216,7 @@ function changePointJson(a: Assessed) {
     method: c.method,
     significance: c.significance,
     permutations: c.permutations,
+    plannedPermutations: c.planned,
     likelihoodRatio: c.lr,
     before: c.before,
     after: c.after,

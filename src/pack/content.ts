@@ -8,6 +8,7 @@ import type { Assessed, Assessment } from '../analyse.ts';
 import { type Diagnostic, formatDiagnostic, sortDiagnostics } from '../diagnostics.ts';
 import { decimalsFor, fmt, fmtAuto, pct, plural } from '../format.ts';
 import { confidenceText, describeComparison } from '../review/recommend.ts';
+import { CHANGE_CONFIDENCE, type ChangePointEvidence } from '../review/evidence.ts';
 import { HISTORY, RUNS } from '../signals/false-alarm.ts';
 import type { IsoDate, ReviewConfig } from '../model.ts';
 import { labelDecimals } from '../render/scene/spec.ts';
@@ -197,6 +198,13 @@ function signalRows(a: Assessed, inPeriod: ReadonlySet<number>): { rows: (readon
 
 const num = fmtAuto;
 
+/** "999 seeded reorderings", or for a curtailed test how far it went and why it stopped. */
+function reorderingsText(cp: ChangePointEvidence): string {
+  if (cp.permutations >= cp.planned) return `${cp.permutations} seeded reorderings`;
+  const reached = cp.permutations - Math.round(cp.significance * cp.permutations);
+  return `stopped after ${cp.permutations} of ${cp.planned} seeded reorderings: ${reached} had reached the observed statistic, so the confidence could no longer reach ${fmt(CHANGE_CONFIDENCE, 2)}`;
+}
+
 function evidenceBlocks(a: Assessed, rulesText: string): RootContent[] {
   const e = a.evidence;
   const label = (i: number) => a.samples[i]!.label;
@@ -205,7 +213,7 @@ function evidenceBlocks(a: Assessed, rulesText: string): RootContent[] {
   if (cp) {
     items.push([
       strong('Estimated change point'),
-      `: "${label(cp.index)}", level ${num(cp.before)} → ${num(cp.after)}; plausible from "${label(cp.interval[0])}" to "${label(cp.interval[1])}"; confidence ${confidenceText(cp.significance, cp.permutations)} that the level changed at all (permutation test, ${cp.permutations} seeded reorderings; likelihood ratio ${num(cp.lr)}). The chart shows the levels before and after and the plausible range.`,
+      `: "${label(cp.index)}", level ${num(cp.before)} → ${num(cp.after)}; plausible from "${label(cp.interval[0])}" to "${label(cp.interval[1])}"; confidence ${confidenceText(cp.significance, cp.permutations)} that the level changed at all (permutation test, ${reorderingsText(cp)}; likelihood ratio ${num(cp.lr)}). The chart shows the levels before and after and the plausible range.`,
     ]);
   }
   for (const t of e.changeTests) {

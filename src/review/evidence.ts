@@ -29,6 +29,8 @@ export interface ChangePointEvidence {
   readonly significance: number;
   /** Reorderings the confidence rests on. */
   readonly permutations: number;
+  /** Reorderings the full test draws; more than `permutations` when it stopped early, unable to reach CHANGE_CONFIDENCE. */
+  readonly planned: number;
   readonly lr: number;
   readonly method: string;
 }
@@ -152,7 +154,7 @@ export function gatherEvidence(input: EvidenceInput): Evidence {
   const persistent = input.signals.some((s) => s.baseline === k && s.panel === 'location' && s.persistence === 'persistent');
   if (persistent && current.end - current.start >= 4) {
     const idx = usable(current.start, current.end);
-    const est = estimateChangePoint(seriesOf(fam, samples, input.locationValues, idx));
+    const est = estimateChangePoint(seriesOf(fam, samples, input.locationValues, idx), 1, CHANGE_CONFIDENCE);
     if (est) {
       // An np chart plots counts: give its levels per sample, not as fractions.
       const scale =
@@ -168,6 +170,7 @@ export function gatherEvidence(input: EvidenceInput): Evidence {
         after: level(est.after),
         significance: est.significance,
         permutations: est.permutations,
+        planned: est.planned,
         lr: est.lr,
         method: est.method,
       };

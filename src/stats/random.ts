@@ -20,12 +20,22 @@ export function normalFrom(next: () => number): number {
   return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * next());
 }
 
-/** Fisher–Yates shuffle of `order` in place. */
-export function shuffle(order: number[], next: () => number): void {
-  for (let i = order.length - 1; i > 0; i--) {
+/**
+ * Fisher–Yates shuffle of `x` in place, and of `w` with the same swaps when
+ * it has the same length (pairs such as counts and their exposures stay
+ * together). The swaps are those `next` draws for an index order of x's length.
+ */
+export function shuffleValues(x: Float64Array, w: Float64Array, next: () => number): void {
+  const paired = w.length === x.length;
+  for (let i = x.length - 1; i > 0; i--) {
     const j = Math.floor(next() * (i + 1));
-    const t = order[i]!;
-    order[i] = order[j]!;
-    order[j] = t;
+    const t = x[i]!;
+    x[i] = x[j]!;
+    x[j] = t;
+    if (paired) {
+      const u = w[i]!;
+      w[i] = w[j]!;
+      w[j] = u;
+    }
   }
 }

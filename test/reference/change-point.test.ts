@@ -90,3 +90,40 @@ describe('change-point estimate on counts', () => {
     expect(est.significance).toBeGreaterThan(0.99);
   });
 });
+
+describe('the curtailed permutation test', () => {
+  // Curtailed sampling: stopping once the share below cannot reach the decision level any more
+  // cannot change the decision (a bound, by hand: with k of B reorderings at or above the observed
+  // statistic, the full share is at most (B − k)/B). Checked here against full runs on the same seeds.
+  const series = (r: number, shift: number) => {
+    const z = normals(900 + r);
+    return { kind: 'normal' as const, values: Array.from({ length: N }, (_, i) => z() + (i >= TRUE_AT ? shift : 0)) };
+  };
+  it('decides at 0.95 as the full test does, and is the full test whenever it does not stop', () => {
+    let stopped = 0;
+    let drawn = 0;
+    let agreeSignificant = 0;
+    for (let r = 0; r < 300; r++) {
+      const s = series(r, r % 3 === 0 ? 1 : 0);
+      const full = estimateChangePoint(s, r + 1)!;
+      const cut = estimateChangePoint(s, r + 1, 0.95)!;
+      expect(full.permutations).toBe(999);
+      expect(cut.planned).toBe(999);
+      expect(cut.significance >= 0.95).toBe(full.significance >= 0.95);
+      if (cut.permutations < cut.planned) {
+        stopped++;
+        // Stopped at the first moment the bound fell below 0.95: k = 50 reorderings reached the statistic.
+        expect(cut.permutations - Math.round(cut.significance * cut.permutations)).toBe(50);
+        expect(cut.significance).toBeLessThan(0.95);
+      } else {
+        expect(cut).toEqual(full);
+      }
+      if (full.significance >= 0.95) agreeSignificant++;
+      drawn += cut.permutations;
+    }
+    // Mostly no shift, and a 1σ shift a third of the time: most runs are unremarkable and stop early.
+    expect(stopped).toBeGreaterThan(150);
+    expect(agreeSignificant).toBeGreaterThan(20);
+    console.log(`curtailed: ${stopped} of 300 stopped early; ${(drawn / 300).toFixed(0)} reorderings a run on average (999 in full)`);
+  });
+});
