@@ -169,7 +169,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   const packDiagnostics = [...diagnostics, ...pack.diagnostics];
   // Markdown and HTML on the other thread, while this one lays out the PDF.
   const pagesInput = { tree: pack.tree, title: ws.config.title, scenes };
-  const textPages = pagesWorker ? pagesWorker.run(pagesInput) : Promise.resolve(writeTextPagesHere(pagesInput));
+  const textPages = pagesWorker ? pagesWorker.run(pagesInput) : writeTextPagesHere(pagesInput);
   lap(pagesWorker ? 'markdown and html sent' : 'markdown and html');
   options.progress?.('pages', 1, 2);
   files.set(

@@ -3,9 +3,12 @@
  * same function the main thread would call, so the bytes are the same.
  */
 import { parentPort } from 'node:worker_threads';
-import { type TextPagesInput, writeTextPagesHere } from './text-pages.ts';
+import { type TextPagesInput, loadTextWriters, writeTextPagesHere } from './text-pages.ts';
 
-parentPort!.once('message', (input: TextPagesInput) => {
-  const pages = writeTextPagesHere(input);
+// Load the writers now, while the main thread analyses; the message comes later.
+void loadTextWriters();
+
+parentPort!.once('message', async (input: TextPagesInput) => {
+  const pages = await writeTextPagesHere(input);
   parentPort!.postMessage(pages, [pages.md.buffer as ArrayBuffer, pages.html.buffer as ArrayBuffer]);
 });
