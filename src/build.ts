@@ -32,6 +32,8 @@ export interface PlannedPack {
    * once); not part of the pack, not in the manifest.
    */
   readonly cache: ReadonlyMap<string, () => Uint8Array>;
+  /** Cache paths whose entry was read unchanged from the earlier build's cache: the writer may link those files rather than write them again. */
+  readonly cacheKept: ReadonlySet<string>;
   /** Characteristics taken from the cache, and those analysed (and drawn) afresh. */
   readonly cacheUse: { readonly reused: number; readonly redone: number };
   readonly assessments: readonly Assessment[];
@@ -204,6 +206,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   files.set(RECORD_FILE, recordBytes);
   files.set('manifest.json', json({ tool: TOOL, asOf, fingerprint, inputs, ledger: { ...integrity.chain, rewrites: integrity.rewrites }, outputs: entries(files) }));
   const cache = new Map<string, () => Uint8Array>();
+  const cacheKept = new Set<string>();
   if (options.cache) {
     assessments.forEach((a, i) => {
       // A very long series would cost more to keep (hundreds of megabytes) than to analyse again.
@@ -212,10 +215,12 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
       const d = drawn.get(a.characteristic.id);
       // An entry read back unchanged is written back as read; a new or grown one (a PNG added) is encoded afresh.
       const scene = scenes.get(a.characteristic.id) ?? null;
-      cache.set(entryPath(keys[i]!), hit && (!d || d.png === hit.entry.png || !d.png) ? () => hit.bytes : () => encodeEntry({ assessment: a, scene, svg: d?.svg ?? null, png: d?.png ?? null }));
+      const kept = hit && (!d || d.png === hit.entry.png || !d.png);
+      cache.set(entryPath(keys[i]!), kept ? () => hit.bytes : () => encodeEntry({ assessment: a, scene, svg: d?.svg ?? null, png: d?.png ?? null }));
+      if (kept) cacheKept.add(entryPath(keys[i]!));
     });
   }
   lap('manifest and cache');
   const reused = hits.filter((h) => h !== undefined).length;
-  return { files, cache, cacheUse: { reused, redone: assessments.length - reused }, assessments, diagnostics: packDiagnostics, exitCode };
+  return { files, cache, cacheKept, cacheUse: { reused, redone: assessments.length - reused }, assessments, diagnostics: packDiagnostics, exitCode };
 }

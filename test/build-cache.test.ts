@@ -5,7 +5,7 @@
  * entry is redone, never trusted; the number of threads never changes a
  * byte. Expected outputs are the cold builds themselves, made without cache.
  */
-import { cpSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { cpSync, mkdtempSync, readFileSync, readdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -42,11 +42,23 @@ describe('the build cache', () => {
     const [date, value] = rows.at(-1)!.split(',');
     rows[rows.length - 1] = `${date},${(Number(value) + 0.4).toFixed(1)}`;
     writeFileSync(file, `${rows.join('\n')}\n`);
+    const entryFile = (k: string) => path.join(out, CACHE, k);
+    const inodes = new Map(keysBefore.map((k) => [k, statSync(entryFile(k)).ino]));
+    const bytesBefore = hashTree(path.join(out, CACHE));
     const warm = json(cli('build', ws, '--out', out, '--previous', before, '--json'));
     expect(warm.cache).toEqual({ reused: 18, redone: 1 });
     const keysAfter = cacheKeys(out);
     expect(keysAfter.filter((k) => !keysBefore.includes(k))).toHaveLength(1);
     expect(keysBefore.filter((k) => !keysAfter.includes(k))).toHaveLength(1);
+    // The 18 unchanged entries were linked from the old pack, not written again: same file (inode), same bytes.
+    const kept = keysAfter.filter((k) => keysBefore.includes(k));
+    expect(kept).toHaveLength(18);
+    for (const k of kept) {
+      expect(statSync(entryFile(k)).ino).toBe(inodes.get(k));
+      expect(statSync(entryFile(k)).nlink).toBe(1);
+    }
+    const bytesAfter = hashTree(path.join(out, CACHE));
+    for (const k of kept) expect(bytesAfter[k]).toBe(bytesBefore[k]);
 
     const cold = path.join(temp, 'cold');
     const c = json(cli('build', ws, '--out', cold, '--previous', before, '--no-cache', '--json'));
@@ -64,6 +76,9 @@ describe('the build cache', () => {
     const r = json(cli('build', ws, '--out', out, '--previous', before, '--json'));
     expect(r.cache).toEqual({ reused: 17, redone: 2 });
     expect(packOnly(out)).toEqual(expected);
+    // The damaged entries were written afresh, not linked: the next build reads them all.
+    expect(readFileSync(path.join(out, CACHE, keys[0]!), 'latin1')).not.toBe('not a cache entry');
+    expect(json(cli('build', ws, '--out', out, '--previous', before, '--json')).cache).toEqual({ reused: 19, redone: 0 });
     expect(cli('verify', out).code).toBe(0);
     // A file put into the pack itself is still caught.
     writeFileSync(path.join(out, 'extra.txt'), 'x');

@@ -179,7 +179,7 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
     ...(progress ? { progress: (stage: string, done: number, total: number) => progress(`${stage} ${done}/${total}`) } : {}),
   });
   progress?.('');
-  writePack(outDir, plan.files, plan.cache);
+  writePack(outDir, plan.files, plan.cache, plan.cacheKept);
   if (json) return io.out(resultJson('build', dir, plan.exitCode, plan.diagnostics, plan.assessments, { out: outDir, files: [...plan.files.keys()].sort(), comparedWith: previous?.asOf ?? null, cache: values['no-cache'] === true ? null : plan.cacheUse })), plan.exitCode;
   printDiagnostics(io, plan.diagnostics, quiet);
   const counts = new Map<string, number>();

@@ -3,7 +3,7 @@
  * temporary folder beside --out, which then replaces --out by rename, so a
  * reader never sees half a pack and a failed build leaves the previous one.
  */
-import { existsSync, mkdirSync, readdirSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { existsSync, linkSync, mkdirSync, readdirSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 
 export class OutputRefused extends Error {}
@@ -69,8 +69,19 @@ export function recoverInterrupted(outDir: string): string[] {
   return removed;
 }
 
-/** `extra`: files that go into the folder but are not the pack (the build cache). */
-export function writePack(outDir: string, files: ReadonlyMap<string, Uint8Array>, extra: ReadonlyMap<string, () => Uint8Array> = new Map()): void {
+/**
+ * `extra`: files that go into the folder but are not the pack (the build
+ * cache). Those named in `kept` hold the same bytes as the file of that name
+ * in the current --out, and are hard-linked from it where the file system
+ * allows (a plant's cache is hundreds of megabytes, nearly all unchanged
+ * after one data file changes); anywhere else they are written.
+ */
+export function writePack(
+  outDir: string,
+  files: ReadonlyMap<string, Uint8Array>,
+  extra: ReadonlyMap<string, () => Uint8Array> = new Map(),
+  kept: ReadonlySet<string> = new Set(),
+): void {
   const out = path.resolve(outDir);
   const parent = path.dirname(out);
   mkdirSync(parent, { recursive: true });
@@ -81,14 +92,28 @@ export function writePack(outDir: string, files: ReadonlyMap<string, Uint8Array>
   mkdirSync(temp);
   try {
     const made = new Set<string>();
-    const put = (name: string, bytes: Uint8Array) => {
-      const target = path.join(temp, name);
+    const folderFor = (target: string) => {
       const dir = path.dirname(target);
       if (!made.has(dir)) mkdirSync(dir, { recursive: true }), made.add(dir);
+    };
+    const put = (name: string, bytes: Uint8Array) => {
+      const target = path.join(temp, name);
+      folderFor(target);
       writeFileSync(target, bytes);
     };
+    // The old file stays until --out is replaced, and a link keeps its bytes after that.
+    const linked = (name: string) => {
+      const target = path.join(temp, name);
+      folderFor(target);
+      try {
+        linkSync(path.join(out, name), target);
+        return true;
+      } catch {
+        return false;
+      }
+    };
     for (const [name, bytes] of files) put(name, bytes);
-    for (const [name, make] of extra) put(name, make());
+    for (const [name, make] of extra) if (!(kept.has(name) && linked(name))) put(name, make());
     const hadOld = existsSync(out);
     if (hadOld) renameSync(out, old);
     renameSync(temp, out);
