@@ -57,6 +57,16 @@ export const confidenceText = (c: number, permutations = 999) => {
   const top = 1 - 1 / permutations;
   return c >= 1 - 1e-12 ? `at least ${fmt(top, 3)}` : fmt(c, 3);
 };
+/** A reason quotes at most this many point labels; a long series can flag hundreds. */
+export const QUOTED_LABELS = 10;
+
+/** `"a", "b", "c"`, or the first QUOTED_LABELS and how many more (summary.json and the signals table list them all). */
+export function quoteSome(labels: readonly string[]): string {
+  const shown = labels.slice(0, QUOTED_LABELS).map((l) => `"${l}"`).join(', ');
+  const more = labels.length - QUOTED_LABELS;
+  return more > 0 ? `${shown} and ${more} more` : shown;
+}
+
 const pValue = (p: number) => (p < 0.0001 ? 'p < 0.0001' : `p = ${fmt(p, p < 0.01 ? 4 : 3)}`);
 
 /** "mean 10.2 → 9.1 (difference −1.1, 95 % interval −1.6 to −0.6; Welch's t-test, p = 0.0004)". */
@@ -195,12 +205,12 @@ function decide(input: RecommendInput): Recommendation {
     }
     const reasons = [...groups.values()].map((g) => {
       const s = g[0]!;
-      const at = g.flatMap((x) => x.flagged).map((i) => `"${label(i)}"`);
+      const at = quoteSome(g.flatMap((x) => x.flagged).map(label));
       const kinds = [...new Set(g.map((x) => x.persistence))].join(' and ');
       // A signal on the better side is a special cause too, but one to learn from rather than remove.
       const better = g.every((x) => x.side !== null && x.side === betterSide(input.better, x.panel));
       return (
-        `Unexplained signal${g.length > 1 ? 's' : ''}: ${s.panel === 'dispersion' ? 'dispersion chart: ' : ''}${input.describeRule(s.rule)} Fired at ${at.join(', ')} (${kinds}).` +
+        `Unexplained signal${g.length > 1 ? 's' : ''}: ${s.panel === 'dispersion' ? 'dispersion chart: ' : ''}${input.describeRule(s.rule)} Fired at ${at} (${kinds}).` +
         (better ? ` ${g.length > 1 ? 'They lie' : 'It lies'} on the better side: an improvement worth understanding; if it lasts, the limits will call for a new baseline.` : '')
       );
     });
@@ -257,9 +267,7 @@ function decide(input: RecommendInput): Recommendation {
     const reasons = [`Trial limits on ${plural(current.usable, 'usable point')}; they keep being recomputed until ${input.freezeAfter}.`];
     if (unexplained.length > 0) {
       reasons.push(
-        `Before freezing, explain the earlier ${unexplained.length === 1 ? 'signal' : 'signals'} at ${unexplained
-          .map((s) => `"${label(s.flagged[0]!)}"`)
-          .join(', ')} with a reviewed or exclude entry.`,
+        `Before freezing, explain the earlier ${unexplained.length === 1 ? 'signal' : 'signals'} at ${quoteSome(unexplained.map((s) => label(s.flagged[0]!)))} with a reviewed or exclude entry.`,
       );
     }
     return { action: 'keep', reasons: [...reasons, ...pending], ledger: [] };
