@@ -15,8 +15,10 @@ function movingRanges(xs: readonly number[]): (number | null)[] {
   return xs.map((x, i) => (i === 0 ? null : Math.abs(x - xs[i - 1]!)));
 }
 
+/** The same limits at every point: one row, shared (a long series would otherwise hold a million copies). */
 function limits(samples: readonly Sample[], center: number, sigma: number): FamilyLimits['location'] {
-  return samples.map(() => threeSigma(center, sigma));
+  const row = threeSigma(center, sigma);
+  return samples.map(() => row);
 }
 
 /** Moving-range panel from a process sigma: CL d2·σ, limits D1·σ and D2·σ (so D3·MR̄ and D4·MR̄ when σ = MR̄/d2). */
