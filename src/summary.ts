@@ -10,6 +10,7 @@ import { family } from './stats/index.ts';
 import { rawExposure } from './review/rates.ts';
 import { TOOL } from './version.ts';
 import type { Integrity } from './review/ledger-chain.ts';
+import { LazyList, type Serialized } from './lazy-list.ts';
 
 export const SUMMARY_FORMAT = 1 as const;
 
@@ -84,7 +85,9 @@ function assessedJson(a: Assessed, period: ReviewConfig['period']) {
   const fam = family(ch.chart);
   const label = (i: number) => a.samples[i]!.label;
   const locationFlags = flaggedBy(a.location.signals);
-  const points = a.samples.map((s, i) => {
+  // Made as they are written (see LazyList): a long series' points are most of the summary.
+  const points = new LazyList(a.samples.length, (i) => {
+    const s = a.samples[i]!;
     const l = a.location.limits[i] ?? null;
     return {
       label: s.label,
@@ -105,7 +108,8 @@ function assessedJson(a: Assessed, period: ReviewConfig['period']) {
   const dispersion = a.dispersion
     ? {
         statistic: fam.dispersionLabel,
-        points: a.samples.map((s, i) => {
+        points: new LazyList(a.samples.length, (i) => {
+          const s = a.samples[i]!;
           const l = a.dispersion!.limits[i] ?? null;
           return {
             label: s.label,
@@ -326,4 +330,5 @@ export function buildSummary(config: ReviewConfig, assessments: readonly Assessm
   };
 }
 
-export type Summary = ReturnType<typeof buildSummary>;
+/** summary.json as a reader parses it (buildSummary's point lists are made as they are written). */
+export type Summary = Serialized<ReturnType<typeof buildSummary>>;

@@ -4,6 +4,8 @@
  * JavaScript engine will build, so the text is encoded in chunks and never
  * held whole. The output is byte for byte what JSON.stringify would write.
  */
+import { LazyList } from '../lazy-list.ts';
+
 const encoder = new TextEncoder();
 const CHUNK = 1 << 20;
 
@@ -13,6 +15,11 @@ function nodesUpTo(value: unknown, limit: number, keys?: ReadonlySet<string>): n
   const walk = (v: unknown): void => {
     n++;
     if (n >= limit || v === null || typeof v !== 'object') return;
+    if (v instanceof LazyList) {
+      // Not made here: its items count as one node each.
+      n += v.length;
+      return;
+    }
     if (Array.isArray(v)) {
       for (const x of v) {
         walk(x);
@@ -42,13 +49,16 @@ export interface JsonLayout {
 }
 
 function* pieces(value: unknown, indent: string, layout: JsonLayout = {}, key?: string): Generator<string> {
-  if (key !== undefined && layout.itemPerLine?.has(key) && Array.isArray(value)) {
-    if (value.length === 0) return yield '[]';
+  if (key !== undefined && layout.itemPerLine?.has(key) && (Array.isArray(value) || value instanceof LazyList)) {
+    const list = value as { readonly length: number; at(i: number): unknown };
+    if (list.length === 0) return yield '[]';
     const inner = `${indent}  `;
     yield '[\n';
-    for (let i = 0; i < value.length; i++) yield `${inner}${JSON.stringify(value[i] ?? null) ?? 'null'}${i < value.length - 1 ? ',\n' : '\n'}`;
+    for (let i = 0; i < list.length; i++) yield `${inner}${JSON.stringify(list.at(i) ?? null) ?? 'null'}${i < list.length - 1 ? ',\n' : '\n'}`;
     return yield `${indent}]`;
   }
+  // A LazyList anywhere else is written as the array it stands for.
+  if (value instanceof LazyList) return yield* pieces(value.toJSON(), indent, layout, key);
   if (value !== null && typeof value === 'object' && nodesUpTo(value, SMALL, layout.itemPerLine) < SMALL) {
     const text = JSON.stringify(value, null, 2);
     // Every line end in JSON.stringify's output is structural (strings escape theirs), so re-indenting is exact.

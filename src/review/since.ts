@@ -28,6 +28,29 @@ export const previousSummarySchema = z.looseObject({
 
 export type SummaryLike = z.infer<typeof previousSummarySchema>;
 
+type PointLike = z.infer<typeof point>;
+type EntryLike = z.infer<typeof entry>;
+
+/**
+ * What a record is cut from: a parsed summary, or this build's summary
+ * object, whose point lists are made on demand (LazyList) and are only read
+ * by position here.
+ */
+export interface RecordSource {
+  readonly format: 1;
+  readonly asOf: string;
+  readonly period: { readonly from: string; readonly to: string };
+  readonly characteristics: readonly {
+    readonly id: string;
+    readonly name: string;
+    readonly status: string;
+    readonly points: { readonly length: number; at(i: number): PointLike | undefined };
+    readonly signals: readonly { readonly rule: string; readonly panel: string; readonly points: readonly string[]; readonly flagged: readonly string[] }[];
+    readonly recommendation: { readonly action: string } | null;
+    readonly history?: readonly EntryLike[] | undefined;
+  }[];
+}
+
 /** The pack file holding a build's comparison record. */
 export const RECORD_FILE = 'record.json';
 
@@ -39,7 +62,7 @@ export const RECORD_FILE = 'record.json';
  * megabytes and a million-point one hundreds; reading it back whole made
  * the next month's build slower and larger than the first.
  */
-export function comparisonRecord(summary: SummaryLike): SummaryLike {
+export function comparisonRecord(summary: RecordSource): SummaryLike {
   return {
     format: summary.format,
     asOf: summary.asOf,
@@ -51,7 +74,7 @@ export function comparisonRecord(summary: SummaryLike): SummaryLike {
         name: c.name,
         status: c.status,
         points: last ? [{ label: last.label, center: last.center, ucl: last.ucl, lcl: last.lcl }] : [],
-        signals: c.signals.map((s) => ({ rule: s.rule, panel: s.panel, points: s.points, flagged: s.flagged })),
+        signals: c.signals.map((s) => ({ rule: s.rule, panel: s.panel, points: [...s.points], flagged: [...s.flagged] })),
         recommendation: c.recommendation ? { action: c.recommendation.action } : null,
         ...(c.history ? { history: c.history.map((e) => ({ date: e.date, action: e.action, point: e.point, reason: e.reason, by: e.by })) } : {}),
       };
@@ -80,8 +103,11 @@ export interface SinceReport {
 }
 
 const actionOf = (c: z.infer<typeof characteristic>) => (c.status === 'assessed' ? (c.recommendation?.action ?? 'keep') : 'cannot be assessed');
-const lastLimits = (c: z.infer<typeof characteristic>) => {
-  for (let i = c.points.length - 1; i >= 0; i--) if (c.points[i]!.center !== null) return c.points[i]!;
+const lastLimits = (c: Pick<RecordSource['characteristics'][number], 'points'>) => {
+  for (let i = c.points.length - 1; i >= 0; i--) {
+    const p = c.points.at(i)!;
+    if (p.center !== null) return p;
+  }
   return undefined;
 };
 

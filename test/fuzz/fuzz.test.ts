@@ -180,7 +180,8 @@ describe('the whole analysis on generated workspaces', () => {
         if (a.status !== 'assessed') expect(a.diagnostics.some((d) => d.severity === 'error')).toBe(true);
         const summary = buildSummary(review.config, [a], [], review.config.period.to);
         expect(() => JSON.parse(JSON.stringify(summary))).not.toThrow();
-        if (a.status === 'assessed') for (const p of summary.characteristics[0]!.points) expect(Number.isFinite(p.value), `${c.chart} value`).toBe(true);
+        const points = summary.characteristics[0]!.points;
+        if (a.status === 'assessed') for (let i = 0; i < points.length; i++) expect(Number.isFinite(points.at(i)!.value), `${c.chart} value`).toBe(true);
       }),
       opts(),
     );

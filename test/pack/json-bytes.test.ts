@@ -2,6 +2,7 @@
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
+import { LazyList } from '../../src/lazy-list.ts';
 import { jsonBytes } from '../../src/pack/json-bytes.ts';
 
 const reference = (v: unknown) => `${JSON.stringify(v, null, 2)}\n`;
@@ -50,5 +51,39 @@ describe('jsonBytes with one item per line', () => {
     // The rest is laid out as JSON.stringify with two spaces.
     expect(text.startsWith('{\n  "format": 1,\n  "characteristics": [\n    {\n      "id": "c0",\n      "points": [\n')).toBe(true);
     expect(text).toContain(JSON.stringify([{ start: 'p0', limits: { center: 1 } }], null, 2).replaceAll('\n', '\n      '));
+  });
+});
+
+describe('jsonBytes with lists made on demand (LazyList)', () => {
+  const lazy = <T>(items: readonly T[]) => new LazyList(items.length, (i) => items[i]!);
+  const layout = { itemPerLine: new Set(['points']) };
+  const plain = {
+    format: 1,
+    characteristics: Array.from({ length: 2 }, (_, c) => ({
+      id: `c${c}`,
+      points: Array.from({ length: 5000 }, (_, i) => ({ label: `p${i}`, value: i / 3, signals: i % 4 ? [] : ['run'] })),
+      dispersion: { points: Array.from({ length: 40 }, (_, i) => ({ value: i })) },
+      small: { points: [{ a: 1 }], other: [1, 2] },
+    })),
+  };
+  const withLazy = {
+    ...plain,
+    characteristics: plain.characteristics.map((c) => ({ ...c, points: lazy(c.points), dispersion: { points: lazy(c.dispersion.points) }, small: { points: lazy(c.small.points), other: lazy(c.small.other) } })),
+  };
+  it('writes the bytes the arrays would give, with one item per line and without', () => {
+    // The reference is the plain arrays through jsonBytes (itself checked against JSON.stringify above) and JSON.stringify.
+    expect(decode(jsonBytes(withLazy, layout))).toBe(decode(jsonBytes(plain, layout)));
+    expect(decode(jsonBytes(withLazy))).toBe(reference(plain));
+    expect(JSON.stringify(withLazy)).toBe(JSON.stringify(plain));
+  });
+  it('makes each item only when it is written, and reads by position like an array', () => {
+    let made = 0;
+    const list = new LazyList(3, (i) => (made++, { i }));
+    expect(made).toBe(0);
+    expect(list.at(-1)).toEqual({ i: 2 });
+    expect(list.at(3)).toBeUndefined();
+    expect(list.at(-4)).toBeUndefined();
+    expect(decode(jsonBytes({ points: list }, layout))).toBe('{\n  "points": [\n    {"i":0},\n    {"i":1},\n    {"i":2}\n  ]\n}\n');
+    expect(made).toBe(4);
   });
 });
