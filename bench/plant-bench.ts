@@ -160,21 +160,25 @@ const dates = Array.from({ length: CORE }, (_, k) => new Date(day0 + k * 86_400_
 const series = Array.from({ length: CORE }, () =>
   dates.map((date, k): Sample => ({ line: k + 2, label: date, date, observation: { kind: 'measurements', values: [50 + normal()] } })),
 );
-t = performance.now();
-let signals = 0;
-for (let c = 0; c < CORE; c++) {
-  const a = analyse({
-    config,
-    characteristic: { id: `c${c}`, name: 'c', chart: 'individuals', data: 'd.csv', unit: '', better: 'target', safety: false, tags: [] },
-    samples: series[c]!,
-    laterLabels: new Set(),
-    ledger: [],
-    ledgerFile: 'ledger.csv',
-    diagnostics: [],
-    asOf: '2026-12-31',
-  });
-  if (a.status === "assessed") signals += a.location.signals.length + (a.dispersion?.signals.length ?? 0);
+// Twice: the first pass also compiles the code and simulates the false-alarm figure for the
+// period's 365 points (cached after); the second shows the steady cost per pass.
+for (const pass of ['first pass', 'second pass']) {
+  t = performance.now();
+  let signals = 0;
+  for (let c = 0; c < CORE; c++) {
+    const a = analyse({
+      config,
+      characteristic: { id: `c${c}`, name: 'c', chart: 'individuals', data: 'd.csv', unit: '', better: 'target', safety: false, tags: [] },
+      samples: series[c]!,
+      laterLabels: new Set(),
+      ledger: [],
+      ledgerFile: 'ledger.csv',
+      diagnostics: [],
+      asOf: '2026-12-31',
+    });
+    if (a.status === 'assessed') signals += a.location.signals.length + (a.dispersion?.signals.length ?? 0);
+  }
+  const tCore = performance.now() - t;
+  line(`statistics + signals, ${CORE} × ${CORE} points, ${pass}`, `${fmtMs(tCore)} (whole analysis: limits, rules, evidence, recommendation; ${signals} signals)`);
 }
-const tCore = performance.now() - t;
-line(`statistics + signals, ${CORE} × ${CORE} points`, `${fmtMs(tCore)} (whole analysis: limits, rules, evidence, recommendation; ${signals} signals)`);
 line('peak resident memory of this process', `${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MiB`);
