@@ -56,12 +56,8 @@ export function readDataFile(text: string, ch: ConfiguredCharacteristic, through
 const hasErrorsIn = (ds: readonly Diagnostic[]) => ds.some((d) => d.severity === 'error');
 
 /** One valid data row, before rows are grouped into points. */
-interface Row {
-  readonly line: number;
-  readonly label: string;
-  readonly date: string;
-  readonly observation: Observation;
-}
+/** A row read and checked; shaped as a Sample (same fields, same order), so a point can be the row itself. */
+type Row = Sample;
 
 function measured(r: Row): readonly number[] {
   return r.observation.kind === 'measurements' ? r.observation.values : [];
@@ -180,7 +176,7 @@ function rowsToSamples(table: CsvTable, ch: Characteristic, diagnostics: Diagnos
         break;
     }
     const label = cell(r.cells, 'label') || date;
-    if (ok && observation !== undefined) rows.push({ line: r.line, label, date, observation });
+    if (ok && observation !== undefined) rows.push({ label, date, line: r.line, observation });
   }
   if (kind === 'interval') return uniquePoints(intervals(rows, col.has('label')), ch, diagnostics);
   return kind === 'measurements' && ch.chart !== 'individuals' ? groupSubgroups(rows, ch, diagnostics) : uniquePoints(rows, ch, diagnostics);
@@ -208,6 +204,10 @@ function intervals(rows: readonly Row[], labelled: boolean): Row[] {
 }
 
 function uniquePoints(rows: readonly Row[], ch: Characteristic, diagnostics: Diagnostic[]): Sample[] {
+  // Labels in strictly rising order (dates, times) are all different: no need to remember a million of them.
+  let rising = true;
+  for (let i = 1; i < rows.length && rising; i++) rising = rows[i - 1]!.label < rows[i]!.label;
+  if (rising) return rows.slice();
   const seen = new Map<string, number>();
   const out: Sample[] = [];
   for (const r of rows) {
@@ -219,7 +219,7 @@ function uniquePoints(rows: readonly Row[], ch: Characteristic, diagnostics: Dia
       continue;
     }
     seen.set(r.label, r.line);
-    out.push({ label: r.label, date: r.date, line: r.line, observation: r.observation });
+    out.push(r);
   }
   return out;
 }

@@ -9,6 +9,8 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { plainRecords, readCsvTable } from '../../src/workspace/csv-table.ts';
 import { isIsoDate } from '../../src/workspace/dates.ts';
+import { readDataFile } from '../../src/workspace/data-file.ts';
+import type { ConfiguredCharacteristic } from '../../src/model.ts';
 
 const pad = (n: number, w: number) => String(n).padStart(w, '0');
 
@@ -66,5 +68,32 @@ describe('the quote-free CSV path reads what csv-parse reads', () => {
   it('reads a header and rows with their lines, line ends counted by hand: rows on lines 3, 4 and 6', () => {
     const read = readCsvTable('date,value\r\n\r\n2026-01-05,1.5\r2026-01-12,2\n\n2026-01-19,3\n', 'x.csv');
     expect(read.table?.rows.map((r) => r.line)).toEqual([3, 4, 6]);
+  });
+});
+
+describe('distinct point labels: the rising-labels shortcut against a plain first-seen check', () => {
+  // Strictly rising labels are all different, so the reader skips remembering them; any other order
+  // goes through the check. The reference here keeps each label's first row and reports the others.
+  const ch: ConfiguredCharacteristic = { id: 'a', name: 'A', chart: 'individuals', data: 'data/a.csv', unit: '', better: 'target', safety: false, tags: [] };
+  it('keeps the first row of each label and reports every repeat, in rising, falling and mixed orders', () => {
+    fc.assert(
+      fc.property(fc.array(fc.integer({ min: 0, max: 30 }), { minLength: 1, maxLength: 40 }), fc.constantFrom('as drawn', 'sorted', 'sorted, distinct'), (drawn, order) => {
+        const labels = order === 'as drawn' ? drawn : order === 'sorted' ? [...drawn].sort((x, y) => x - y) : [...new Set(drawn)].sort((x, y) => x - y);
+        const names = labels.map((n) => `p${pad(n, 2)}`);
+        const csv = `label,date,value\n${names.map((l, i) => `${l},2026-01-01,${i}`).join('\n')}\n`;
+        const read = readDataFile(csv, ch, '2026-12-31');
+        const firstLine = new Map<string, number>();
+        const kept: string[] = [];
+        const repeats: number[] = [];
+        names.forEach((l, i) => {
+          if (firstLine.has(l)) repeats.push(i + 2);
+          else firstLine.set(l, i + 2), kept.push(l);
+        });
+        expect(read.samples.map((s) => s.label)).toEqual(kept);
+        expect(read.samples.map((s) => s.line)).toEqual(kept.map((l) => firstLine.get(l)));
+        expect(read.diagnostics.filter((d) => d.ruleId === 'data/duplicate-point').map((d) => d.line)).toEqual(repeats);
+      }),
+      { numRuns: 300, seed: 11 },
+    );
   });
 });
