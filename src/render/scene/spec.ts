@@ -100,12 +100,17 @@ function limitRanges(a: Assessed): PanelSpec['limitRanges'] {
   const u = a.evidence.uncertainty;
   const out: ({ ucl: [number, number]; lcl: [number, number] } | null)[] = a.samples.map(() => null);
   if (!u || current.status !== 'trial') return out;
+  // Where the limits and their errors repeat (most charts, and a long series's every point), so does the range: one object, shared.
+  let previous: { l: unknown; su: number; sl: number; range: NonNullable<(typeof out)[number]> } | undefined;
   for (let i = current.start; i < current.end; i++) {
     const l = a.location.limits[i];
     const su = u.uclSE[i - current.start];
     const sl = u.lclSE[i - current.start];
     if (!l || su === undefined || sl === undefined) continue;
-    out[i] = { ucl: [l.ucl - 1.645 * su, l.ucl + 1.645 * su], lcl: [l.lcl - 1.645 * sl, l.lcl + 1.645 * sl] };
+    if (previous?.l !== l || previous.su !== su || previous.sl !== sl) {
+      previous = { l, su, sl, range: { ucl: [l.ucl - 1.645 * su, l.ucl + 1.645 * su], lcl: [l.lcl - 1.645 * sl, l.lcl + 1.645 * sl] } };
+    }
+    out[i] = previous.range;
   }
   return out;
 }
