@@ -8,7 +8,8 @@ import { type PreviousLedger, rewriteSentence } from './review/ledger-chain.ts';
 import type { Diagnostic } from './diagnostics.ts';
 import type { IsoDate } from './model.ts';
 import { buildPackTree } from './pack/content.ts';
-import { jsonBytes } from './pack/json-bytes.ts';
+import { jsonBytes, jsonChunks } from './pack/json-bytes.ts';
+import type { FileSink } from './pack/write.ts';
 import { type PagesWorker, startPagesWorker, writeTextPagesHere } from './pack/text-pages.ts';
 import { type Paper, toPdf } from './pack/pdf.ts';
 import { loadFonts } from './render/fonts.ts';
@@ -26,6 +27,8 @@ import type { Workspace } from './workspace/load.ts';
 export interface PlannedPack {
   /** Output path (relative to --out) → contents, in write order. */
   readonly files: ReadonlyMap<string, Uint8Array>;
+  /** Output files already written through a sink (summary.json with `summarySink`): their size and SHA-256, which the manifest lists. */
+  readonly placed: ReadonlyMap<string, { readonly bytes: number; readonly sha256: string }>;
   /**
    * The build cache to leave in the pack folder (path → bytes, made when
    * written: a plant's cache is hundreds of megabytes, not worth holding at
@@ -58,6 +61,12 @@ export interface PackOptions {
   readonly jobs?: number;
   /** Called with each stage's wall time as it ends (analysis, scenes, tree, markdown, html, pdf, charts, summary), for benchmarks. */
   readonly timing?: (stage: string, ms: number) => void;
+  /**
+   * Where summary.json goes as it is made (a file in the pack's temporary
+   * folder): the largest file of a pack, 436 MB for a million points, is
+   * then never held whole. The plan lists it under `placed`, not `files`.
+   */
+  readonly summarySink?: () => FileSink;
   /** Characteristics with more points are not cached (default MAX_CACHED_POINTS). */
   readonly maxCachedPoints?: number;
   /** Entries of an earlier build's cache, by key; absent: no cache is read or written. */
@@ -93,7 +102,15 @@ function summarise(ws: Workspace, asOf: IsoDate, options: PackOptions, known: (i
   const { summary, ...rest } = planSummary(ws, asOf, options.previousLedger, known, progress);
   const record = comparisonRecord(summary);
   const since = options.previous ? compareSummaries(options.previous, record) : undefined;
-  return { ...rest, summaryBytes: json(summary, SUMMARY_LAYOUT), recordBytes: json(record), since };
+  let summaryFile: Uint8Array | { readonly bytes: number; readonly sha256: string };
+  if (options.summarySink) {
+    const sink = options.summarySink();
+    jsonChunks(summary, SUMMARY_LAYOUT, (b) => sink.write(b));
+    summaryFile = sink.close();
+  } else {
+    summaryFile = json(summary, SUMMARY_LAYOUT);
+  }
+  return { ...rest, summaryFile, recordBytes: json(record), since };
 }
 
 export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOptions = DEFAULT_OPTIONS): Promise<PlannedPack> {
@@ -119,7 +136,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   };
   const keys = options.cache ? ws.characteristics.map((c) => cacheKey(ws, c, asOf)) : [];
   const hits = keys.map((k) => options.cache?.(k));
-  const { assessments, diagnostics, integrity, exitCode, summaryBytes, recordBytes, since } = summarise(ws, asOf, options, (i) => hits[i]?.entry.assessment);
+  const { assessments, diagnostics, integrity, exitCode, summaryFile, recordBytes, since } = summarise(ws, asOf, options, (i) => hits[i]?.entry.assessment);
   lap('analysis and summary.json');
   const inputs = entries(ws.inputs);
   // One hash over the input hashes: the pack's fingerprint of what it was built from.
@@ -202,9 +219,12 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     files.set(chartFile(a.characteristic.id), encoder.encode(d.svg));
     if (options.png && d.png) files.set(`charts/${a.characteristic.id}.png`, d.png);
   }
-  files.set('summary.json', summaryBytes);
+  const placed = new Map<string, { readonly bytes: number; readonly sha256: string }>();
+  if (summaryFile instanceof Uint8Array) files.set('summary.json', summaryFile);
+  else placed.set('summary.json', summaryFile);
   files.set(RECORD_FILE, recordBytes);
-  files.set('manifest.json', json({ tool: TOOL, asOf, fingerprint, inputs, ledger: { ...integrity.chain, rewrites: integrity.rewrites }, outputs: entries(files) }));
+  const outputs = [...entries(files), ...[...placed].map(([p, f]) => ({ path: p, ...f }))].sort((a, b) => (a.path < b.path ? -1 : a.path > b.path ? 1 : 0));
+  files.set('manifest.json', json({ tool: TOOL, asOf, fingerprint, inputs, ledger: { ...integrity.chain, rewrites: integrity.rewrites }, outputs }));
   const cache = new Map<string, () => Uint8Array>();
   const cacheKept = new Set<string>();
   if (options.cache) {
@@ -222,5 +242,5 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   }
   lap('manifest and cache');
   const reused = hits.filter((h) => h !== undefined).length;
-  return { files, cache, cacheKept, cacheUse: { reused, redone: assessments.length - reused }, assessments, diagnostics: packDiagnostics, exitCode };
+  return { files, placed, cache, cacheKept, cacheUse: { reused, redone: assessments.length - reused }, assessments, diagnostics: packDiagnostics, exitCode };
 }

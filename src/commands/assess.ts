@@ -6,7 +6,7 @@ import { planSummary } from '../assess.ts';
 import type { PreviousLedger, RewriteRecord } from '../review/ledger-chain.ts';
 import type { Assessment } from '../analyse.ts';
 import { type Diagnostic, hasErrors } from '../diagnostics.ts';
-import { checkOutDir, recoverInterrupted, writePack } from '../pack/write.ts';
+import { checkOutDir, discardPackFolder, fileSink, openPackFolder, recoverInterrupted, writePack } from '../pack/write.ts';
 import { RECORD_FILE, type SummaryLike, comparisonRecord, previousSummarySchema } from '../review/since.ts';
 import { TOOL } from '../version.ts';
 import { isIsoDate } from '../workspace/dates.ts';
@@ -168,19 +168,28 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
   // The renderers are loaded only when a pack is built.
   const { planPack } = await import('../build.ts');
   const { openCache } = await import('../pack/build-cache.ts');
-  const plan = await planPack(ws, asOf ?? ws.config.period.to, {
-    paper,
-    ...(jobs !== undefined ? { jobs } : {}),
-    ...(values['no-cache'] === true ? {} : { cache: openCache(outDir) }),
-    png: values.png === true,
-    ...(previous ? { previous } : {}),
-    ...(previousLedger ? { previousLedger } : {}),
-    ...(audience ? { audience } : {}),
-    ...(progress ? { progress: (stage: string, done: number, total: number) => progress(`${stage} ${done}/${total}`) } : {}),
-  });
+  // The pack's temporary folder, from here: summary.json is written into it as the analysis makes it.
+  const folder = openPackFolder(outDir);
+  let plan: Awaited<ReturnType<typeof planPack>>;
+  try {
+    plan = await planPack(ws, asOf ?? ws.config.period.to, {
+      paper,
+      summarySink: () => fileSink(folder, 'summary.json'),
+      ...(jobs !== undefined ? { jobs } : {}),
+      ...(values['no-cache'] === true ? {} : { cache: openCache(outDir) }),
+      png: values.png === true,
+      ...(previous ? { previous } : {}),
+      ...(previousLedger ? { previousLedger } : {}),
+      ...(audience ? { audience } : {}),
+      ...(progress ? { progress: (stage: string, done: number, total: number) => progress(`${stage} ${done}/${total}`) } : {}),
+    });
+  } catch (e) {
+    discardPackFolder(folder);
+    throw e;
+  }
   progress?.('');
-  writePack(outDir, plan.files, plan.cache, plan.cacheKept);
-  if (json) return io.out(resultJson('build', dir, plan.exitCode, plan.diagnostics, plan.assessments, { out: outDir, files: [...plan.files.keys()].sort(), comparedWith: previous?.asOf ?? null, cache: values['no-cache'] === true ? null : plan.cacheUse })), plan.exitCode;
+  writePack(folder, plan.files, plan.cache, plan.cacheKept);
+  if (json) return io.out(resultJson('build', dir, plan.exitCode, plan.diagnostics, plan.assessments, { out: outDir, files: [...plan.files.keys(), ...plan.placed.keys()].sort(), comparedWith: previous?.asOf ?? null, cache: values['no-cache'] === true ? null : plan.cacheUse })), plan.exitCode;
   printDiagnostics(io, plan.diagnostics, quiet);
   const counts = new Map<string, number>();
   for (const a of plan.assessments) {

@@ -102,16 +102,40 @@ function* pieces(value: unknown, indent: string, layout: JsonLayout = {}, key?: 
  */
 export function jsonBytes(value: unknown, layout: JsonLayout = {}): Uint8Array {
   const out = new GrowingBytes();
+  textChunks(value, layout, CHUNK, (text) => out.write(text));
+  return out.bytes();
+}
+
+/** The document's text, handed on in chunks of at least `chunk` characters (the last one shorter). */
+function textChunks(value: unknown, layout: JsonLayout, chunk: number, write: (text: string) => void): void {
   let buffer = '';
   for (const p of pieces(value, '', layout)) {
     buffer += p;
-    if (buffer.length >= CHUNK) {
-      out.write(buffer);
+    if (buffer.length >= chunk) {
+      write(buffer);
       buffer = '';
     }
   }
-  out.write(`${buffer}\n`);
-  return out.bytes();
+  write(`${buffer}\n`);
+}
+
+/**
+ * The bytes jsonBytes would give, handed to `sink` a piece at a time
+ * through one buffer that is reused: for a file written as it is made, so
+ * that none of it is held. Each piece is only valid until `sink` returns.
+ */
+export function jsonChunks(value: unknown, layout: JsonLayout, sink: (bytes: Uint8Array) => void, chunk = CHUNK): void {
+  // UTF-8 takes at most three bytes per UTF-16 unit; a longer text is encoded in turns.
+  const bytes = new Uint8Array(chunk * 3);
+  textChunks(value, layout, chunk, (text) => {
+    for (let rest = text; rest.length > 0; ) {
+      // encodeInto never splits a surrogate pair, so each turn is whole UTF-8.
+      const { read, written } = encoder.encodeInto(rest, bytes);
+      if (read === 0) throw new RangeError(`jsonChunks: a chunk of ${chunk} characters cannot hold one`);
+      sink(bytes.subarray(0, written));
+      rest = rest.slice(read);
+    }
+  });
 }
 
 /**

@@ -3,7 +3,8 @@
  * temporary folder beside --out, which then replaces --out by rename, so a
  * reader never sees half a pack and a failed build leaves the previous one.
  */
-import { existsSync, linkSync, mkdirSync, readdirSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { createHash } from 'node:crypto';
+import { closeSync, existsSync, linkSync, mkdirSync, openSync, readdirSync, renameSync, rmSync, statSync, writeFileSync, writeSync } from 'node:fs';
 import path from 'node:path';
 
 export class OutputRefused extends Error {}
@@ -70,26 +71,77 @@ export function recoverInterrupted(outDir: string): string[] {
 }
 
 /**
- * `extra`: files that go into the folder but are not the pack (the build
- * cache). Those named in `kept` hold the same bytes as the file of that name
- * in the current --out, and are hard-linked from it where the file system
- * allows (a plant's cache is hundreds of megabytes, nearly all unchanged
- * after one data file changes); anywhere else they are written.
+ * The temporary folder beside --out that one build writes into, named for
+ * its process so that a later build can tell a killed build's leftovers
+ * (recoverInterrupted) from a running one's.
  */
-export function writePack(
-  outDir: string,
-  files: ReadonlyMap<string, Uint8Array>,
-  extra: ReadonlyMap<string, () => Uint8Array> = new Map(),
-  kept: ReadonlySet<string> = new Set(),
-): void {
+export interface PackFolder {
+  /** --out, resolved. */
+  readonly out: string;
+  readonly temp: string;
+  /** Where the previous pack waits between the two renames. */
+  readonly old: string;
+}
+
+/** Clears what killed builds left beside --out, then makes this build's temporary folder. */
+export function openPackFolder(outDir: string): PackFolder {
   const out = path.resolve(outDir);
   const parent = path.dirname(out);
   mkdirSync(parent, { recursive: true });
   recoverInterrupted(out);
   const stamp = `${process.pid}-${Date.now()}`;
-  const temp = path.join(parent, `.${path.basename(out)}.building-${stamp}`);
-  const old = path.join(parent, `.${path.basename(out)}.previous-${stamp}`);
-  mkdirSync(temp);
+  const folder = { out, temp: path.join(parent, `.${path.basename(out)}.building-${stamp}`), old: path.join(parent, `.${path.basename(out)}.previous-${stamp}`) };
+  mkdirSync(folder.temp);
+  return folder;
+}
+
+/** Removes the temporary folder of a build that failed. */
+export function discardPackFolder(folder: PackFolder): void {
+  rmSync(folder.temp, { recursive: true, force: true });
+}
+
+/** A file written into a pack folder as it is made, hashed on the way: its size and SHA-256 for the manifest. */
+export interface FileSink {
+  write(bytes: Uint8Array): void;
+  close(): { readonly bytes: number; readonly sha256: string };
+}
+
+export function fileSink(folder: PackFolder, name: string): FileSink {
+  const target = path.join(folder.temp, name);
+  mkdirSync(path.dirname(target), { recursive: true });
+  const fd = openSync(target, 'w');
+  const hash = createHash('sha256');
+  let bytes = 0;
+  return {
+    write(chunk) {
+      for (let done = 0; done < chunk.length; ) done += writeSync(fd, chunk, done);
+      hash.update(chunk);
+      bytes += chunk.length;
+    },
+    close() {
+      closeSync(fd);
+      return { bytes, sha256: hash.digest('hex') };
+    },
+  };
+}
+
+/**
+ * Writes the planned files into the build's folder, which then replaces
+ * --out. Files already made there (summary.json, through a FileSink) stay.
+ * `extra`: files that go into the folder but are not the pack (the build
+ * cache). Those named in `kept` hold the same bytes as the file of that name
+ * in the current --out, and are hard-linked from it where the file system
+ * allows (a plant's cache is hundreds of megabytes, nearly all unchanged
+ * after one data file changes); anywhere else they are written. On any
+ * failure the folder is removed and --out left as it was.
+ */
+export function writePack(
+  folder: PackFolder,
+  files: ReadonlyMap<string, Uint8Array>,
+  extra: ReadonlyMap<string, () => Uint8Array> = new Map(),
+  kept: ReadonlySet<string> = new Set(),
+): void {
+  const { out, temp, old } = folder;
   try {
     const made = new Set<string>();
     const folderFor = (target: string) => {
@@ -119,7 +171,7 @@ export function writePack(
     renameSync(temp, out);
     if (hadOld) rmSync(old, { recursive: true, force: true });
   } catch (e) {
-    rmSync(temp, { recursive: true, force: true });
+    discardPackFolder(folder);
     throw e;
   }
 }

@@ -3,7 +3,7 @@ import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { LazyList } from '../../src/lazy-list.ts';
-import { jsonBytes } from '../../src/pack/json-bytes.ts';
+import { jsonBytes, jsonChunks } from '../../src/pack/json-bytes.ts';
 
 const reference = (v: unknown) => `${JSON.stringify(v, null, 2)}\n`;
 const decode = (b: Uint8Array) => new TextDecoder().decode(b);
@@ -85,5 +85,30 @@ describe('jsonBytes with lists made on demand (LazyList)', () => {
     expect(list.at(-4)).toBeUndefined();
     expect(decode(jsonBytes({ points: list }, layout))).toBe('{\n  "points": [\n    {"i":0},\n    {"i":1},\n    {"i":2}\n  ]\n}\n');
     expect(made).toBe(4);
+  });
+});
+
+describe('jsonChunks: the same bytes, a reused buffer at a time', () => {
+  const gather = (value: unknown, layout: { itemPerLine?: ReadonlySet<string> }, chunk?: number) => {
+    const parts: Uint8Array[] = [];
+    jsonChunks(value, layout, (b) => parts.push(b.slice()), chunk);
+    return Buffer.concat(parts);
+  };
+  it('writes what jsonBytes writes, at any chunk size, astral characters included', () => {
+    const value = {
+      title: 'a"b\\c\n\u2028é😀'.repeat(40),
+      points: new LazyList(2000, (i) => ({ label: `p${i}😀`, value: i / 7, signals: i % 5 ? [] : ['run'] })),
+      nested: { deep: [1, [2, [3, { x: '😀😀😀' }]]] },
+    };
+    const layout = { itemPerLine: new Set(['points']) };
+    const expected = Buffer.from(jsonBytes(value, layout));
+    for (const chunk of [2, 3, 7, 64, 1000, 1 << 20]) expect(gather(value, layout, chunk).equals(expected), `chunk ${chunk}`).toBe(true);
+    expect(gather([], {}).toString()).toBe('[]\n');
+  });
+  it('hands on pieces no longer than three bytes a character of its chunk', () => {
+    const sizes: number[] = [];
+    jsonChunks({ s: 'é'.repeat(10_000) }, {}, (b) => sizes.push(b.length), 100);
+    expect(Math.max(...sizes)).toBeLessThanOrEqual(300);
+    expect(sizes.reduce((a, b) => a + b, 0)).toBe(jsonBytes({ s: 'é'.repeat(10_000) }).length);
   });
 });
