@@ -5,10 +5,12 @@
  * folders, and inputs that are never modified, checked by hashing.
  */
 import { spawn, spawnSync } from 'node:child_process';
+import { createHash } from 'node:crypto';
 import { appendFileSync, cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
+import { discardPackFolder, fileSink, openPackFolder } from '../src/pack/write.ts';
 import { BIN, ROOT, cli, hashTree } from './helpers/cli.ts';
 
 const temp = mkdtempSync(path.join(tmpdir(), 'plumbline-atomic-'));
@@ -75,5 +77,26 @@ describe('--out that would touch the inputs is refused, and nothing is written',
     }
     expect(hashTree(ws)).toEqual(inputs);
     expect(existsSync(path.join(ws, 'data', 'pack'))).toBe(false);
+  });
+});
+
+describe('the pack folder a build opens before it plans', () => {
+  it('holds what is written as it is made; a failed build removes it, and the folders it made above --out', () => {
+    const out = path.join(temp, 'new', 'deep', 'pack');
+    const folder = openPackFolder(out);
+    expect(path.dirname(folder.temp)).toBe(path.dirname(out));
+    const sink = fileSink(folder, 'summary.json');
+    sink.write(new TextEncoder().encode('{"a":'));
+    sink.write(new TextEncoder().encode('1}\n'));
+    // SHA-256 of the 8 bytes '{"a":1}\n', from Node's crypto module (a reference outside this project).
+    expect(sink.close()).toEqual({ bytes: 8, sha256: createHash('sha256').update('{"a":1}\n').digest('hex') });
+    discardPackFolder(folder);
+    expect(existsSync(path.join(temp, 'new'))).toBe(false);
+
+    // A parent that was there before stays.
+    const kept = path.join(temp, 'existing');
+    mkdirSync(kept);
+    discardPackFolder(openPackFolder(path.join(kept, 'pack')));
+    expect(readdirSync(kept)).toEqual([]);
   });
 });

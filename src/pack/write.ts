@@ -81,23 +81,27 @@ export interface PackFolder {
   readonly temp: string;
   /** Where the previous pack waits between the two renames. */
   readonly old: string;
+  /** The first folder above --out that this build made, if --out's parent did not exist: a failed build removes it again. */
+  readonly madeParent: string | undefined;
 }
 
 /** Clears what killed builds left beside --out, then makes this build's temporary folder. */
 export function openPackFolder(outDir: string): PackFolder {
   const out = path.resolve(outDir);
   const parent = path.dirname(out);
-  mkdirSync(parent, { recursive: true });
+  const madeParent = mkdirSync(parent, { recursive: true });
   recoverInterrupted(out);
   const stamp = `${process.pid}-${Date.now()}`;
-  const folder = { out, temp: path.join(parent, `.${path.basename(out)}.building-${stamp}`), old: path.join(parent, `.${path.basename(out)}.previous-${stamp}`) };
+  const base = path.basename(out);
+  const folder = { out, temp: path.join(parent, `.${base}.building-${stamp}`), old: path.join(parent, `.${base}.previous-${stamp}`), madeParent };
   mkdirSync(folder.temp);
   return folder;
 }
 
-/** Removes the temporary folder of a build that failed. */
+/** Removes the temporary folder of a build that failed, and the folders above it that the build made. */
 export function discardPackFolder(folder: PackFolder): void {
   rmSync(folder.temp, { recursive: true, force: true });
+  if (folder.madeParent && !existsSync(folder.out)) rmSync(folder.madeParent, { recursive: true, force: true });
 }
 
 /** A file written into a pack folder as it is made, hashed on the way: its size and SHA-256 for the manifest. */
