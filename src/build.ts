@@ -79,7 +79,8 @@ const encoder = new TextEncoder();
 const json = jsonBytes;
 /** summary.json: one line per point (see jsonBytes). */
 const SUMMARY_LAYOUT = { itemPerLine: new Set(['points']) };
-const byPath = ([a]: [string, unknown], [b]: [string, unknown]) => (a < b ? -1 : a > b ? 1 : 0);
+const comparePaths = (a: string, b: string) => (a < b ? -1 : a > b ? 1 : 0);
+const byPath = ([a]: [string, unknown], [b]: [string, unknown]) => comparePaths(a, b);
 
 function entries(m: ReadonlyMap<string, Uint8Array>) {
   return [...m.entries()].sort(byPath).map(([p, b]) => ({ path: p, bytes: b.length, sha256: sha256(b) }));
@@ -223,7 +224,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   if (summaryFile instanceof Uint8Array) files.set('summary.json', summaryFile);
   else placed.set('summary.json', summaryFile);
   files.set(RECORD_FILE, recordBytes);
-  const outputs = [...entries(files), ...[...placed].map(([p, f]) => ({ path: p, ...f }))].sort((a, b) => (a.path < b.path ? -1 : a.path > b.path ? 1 : 0));
+  const outputs = [...entries(files), ...[...placed].map(([p, f]) => ({ path: p, ...f }))].sort((a, b) => comparePaths(a.path, b.path));
   files.set('manifest.json', json({ tool: TOOL, asOf, fingerprint, inputs, ledger: { ...integrity.chain, rewrites: integrity.rewrites }, outputs }));
   const cache = new Map<string, () => Uint8Array>();
   const cacheKept = new Set<string>();
