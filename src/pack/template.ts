@@ -5,11 +5,11 @@
  * Markdown source, so text from the data cannot become markup. Pure: the
  * template text is read elsewhere.
  */
-import type { Root, RootContent } from 'mdast';
+import type { Definition, Root, RootContent } from 'mdast';
 import remarkGfm from 'remark-gfm';
 import remarkParse from 'remark-parse';
 import { unified } from 'unified';
-import { visit } from 'unist-util-visit';
+import { SKIP, visit } from 'unist-util-visit';
 import { type Diagnostic, warning } from '../diagnostics.ts';
 import { printable } from '../format.ts';
 
@@ -39,9 +39,38 @@ function parse(text: string): Root {
   let tree = parsed.get(text);
   if (!tree) {
     tree = parser.runSync(parser.parse(text)) as Root;
+    inlineReferences(tree);
     parsed.set(text, tree);
   }
   return structuredClone(tree);
+}
+
+/**
+ * Reference-style links and images (`[text][id]` with `[id]: url` below)
+ * become the inline links and images they stand for, and the definitions
+ * go: every writer then applies one policy to every link (HTML keeps only
+ * links within the pack; a reference once reached the page as a live
+ * `href`, `javascript:` included), and no block of the tree depends on a
+ * definition in another. A reference exists only where its definition
+ * does (CommonMark), and the first definition of an identifier wins.
+ */
+function inlineReferences(tree: Root): void {
+  const defined = new Map<string, Definition>();
+  visit(tree, 'definition', (d) => {
+    if (!defined.has(d.identifier)) defined.set(d.identifier, d);
+  });
+  visit(tree, (node, index, parent) => {
+    if (!parent || index === undefined) return;
+    if (node.type === 'definition') {
+      parent.children.splice(index, 1);
+      return [SKIP, index];
+    }
+    if (node.type !== 'linkReference' && node.type !== 'imageReference') return;
+    const d = defined.get(node.identifier);
+    const at = { url: d?.url ?? '', title: d?.title ?? null };
+    (parent.children as RootContent[])[index] = node.type === 'linkReference' ? { type: 'link', ...at, children: node.children } : { type: 'image', ...at, alt: node.alt ?? null };
+    return undefined;
+  });
 }
 
 export function fillTemplate(template: Template, values: Values): { nodes: RootContent[]; diagnostics: Diagnostic[] } {
