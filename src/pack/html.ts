@@ -31,7 +31,12 @@ function fontFace(bytes: Uint8Array, weight: number): string {
   return `@font-face{font-family:"${FONT_FAMILY}";font-weight:${weight};font-style:normal;src:url(data:font/ttf;base64,${Buffer.from(bytes).toString('base64')}) format("truetype")}`;
 }
 
-export function toHtml(input: HtmlInput): string {
+/**
+ * The page. `whole` converts the tree as one document, the plain use of
+ * remark-rehype; the block-by-block route below must give the same bytes
+ * (test/pack/content.test.ts compares them).
+ */
+export function toHtml(input: HtmlInput, { whole = false }: { readonly whole?: boolean } = {}): string {
   const toHast = unified().use(remarkRehype, {
     handlers: {
       image(state, node) {
@@ -47,7 +52,7 @@ export function toHtml(input: HtmlInput): string {
       },
     },
   });
-  const body = toHast.runSync(input.tree) as HastRoot;
+  const toText = unified().use(rehypeStringify);
   const css = `${fontFace(input.fonts.regular, 400)}\n${fontFace(input.fonts.semibold, 600)}\n${PACK_CSS}`;
   const doc: HastRoot = {
     type: 'root',
@@ -61,9 +66,31 @@ export function toHtml(input: HtmlInput): string {
           el('title', {}, [txt(input.title)]),
           el('style', {}, [txt(css)]),
         ]),
-        el('body', {}, [el('main', {}, body.children as ElementContent[])]),
+        el('body', {}, [el('main', {}, [])]),
       ]),
     ],
   };
-  return `${unified().use(rehypeStringify).stringify(doc)}\n`;
+  // The page around an empty <main>, then the body one top-level block at a time: a plant's
+  // whole body as one hast tree (every chart's SVG elements) was hundreds of megabytes in
+  // the page worker. mdast-util-to-hast writes a root's blocks (those that make anything)
+  // with a newline between them, and hast-util-to-html a root as its children one after
+  // another, so the pieces joined the same way are the same bytes. Footnotes are the one
+  // thing that spans blocks (references number them, the list comes at the end; templates
+  // have reference links made inline), so a tree with any is converted whole.
+  const page = toText.stringify(doc);
+  const at = page.indexOf('<main></main>');
+  if (at < 0 || page.indexOf('<main></main>', at + 1) >= 0) throw new Error('internal: the page template has no single empty <main>');
+  const blocks = whole || hasFootnotes(input.tree) ? [input.tree] : input.tree.children.map((node): Root => ({ type: 'root', children: [node] }));
+  const body: string[] = [];
+  for (const block of blocks) {
+    const hast = toHast.runSync(block) as HastRoot;
+    if (hast.children.length > 0) body.push(toText.stringify(hast));
+  }
+  return `${page.slice(0, at)}<main>${body.join('\n')}</main>${page.slice(at + '<main></main>'.length)}\n`;
+}
+
+/** Whether any node of `tree` is a footnote reference or definition. */
+function hasFootnotes(node: { type: string; children?: unknown[] }): boolean {
+  if (node.type === 'footnoteReference' || node.type === 'footnoteDefinition') return true;
+  return node.children?.some((c) => hasFootnotes(c as { type: string; children?: unknown[] })) ?? false;
 }

@@ -13,7 +13,8 @@ import remarkParse from 'remark-parse';
 import { unified } from 'unified';
 import { visit } from 'unist-util-visit';
 import { afterAll, describe, expect, it } from 'vitest';
-import type { Assessment } from '../../src/analyse.ts';
+import type { Paragraph, Root } from 'mdast';
+import type { Assessed, Assessment } from '../../src/analyse.ts';
 import { EARLIER_SIGNAL_ROWS, buildPackTree } from '../../src/pack/content.ts';
 import { toHtml } from '../../src/pack/html.ts';
 import { toMarkdown } from '../../src/pack/markdown.ts';
@@ -22,7 +23,7 @@ import type { ReviewConfig } from '../../src/model.ts';
 import { readTemplates } from '../../src/workspace/templates.ts';
 import { loadWorkspace } from '../../src/workspace/load.ts';
 import { planSummary } from '../../src/assess.ts';
-import { fonts } from '../helpers/charts.ts';
+import { fonts, sceneOf } from '../helpers/charts.ts';
 import { assess, isoDay, ledgerCsv, pointsCsv } from '../helpers/in-memory.ts';
 
 const temp = mkdtempSync(path.join(tmpdir(), 'plumbline-content-'));
@@ -129,6 +130,64 @@ describe('templates', () => {
     expect(new Set(unknown.map((d) => `${d.file}:${d.line}:${d.message.split(' ')[0]}`))).toEqual(
       new Set(['templates/characteristic.md:7:{{nonsense}}', 'templates/characteristic.md:9:{{typo}}']),
     );
+  });
+});
+
+describe('reference links in a workspace template', () => {
+  const ws = path.join(temp, 'ws-references');
+  cpSync(path.join(import.meta.dirname, '../fixtures/engine'), ws, { recursive: true });
+  mkdirSync(path.join(ws, 'templates'));
+  writeFileSync(
+    path.join(ws, 'templates/method.md'),
+    '## Method\n\nSee [the site][x], [home][y], [back][top], a note[^1] and ![logo][z].\n\n[x]: javascript:alert(1)\n[y]: https://example.com\n[top]: #contents\n[z]: https://example.com/logo.png\n[^1]: A footnote.\n',
+  );
+  const loaded = loadWorkspace(ws);
+  if (!loaded.ok) throw new Error('no load');
+  const plan = planSummary(loaded.workspace, '2026-11-30');
+  const built = tree(plan.assessments as Assessment[], loaded.workspace.templates, loaded.workspace.config).tree;
+
+  it('HTML: a reference link gets the inline link’s treatment — only links within the pack stay links; no image loads', () => {
+    // They once reached the page as <a href="javascript:alert(1)"> and <img src="https://…">.
+    const html = toHtml({ tree: built, title: 'x', scenes: new Map(), fonts });
+    const els: Element[] = [];
+    visit(fromHtml(html), 'element', (e: Element) => void els.push(e));
+    const hrefs = els.filter((e) => e.tagName === 'a').map((e) => String(e.properties.href));
+    expect(hrefs.filter((h) => !h.startsWith('#'))).toEqual([]);
+    expect(hrefs).toContain('#contents');
+    expect(els.filter((e) => e.tagName === 'img')).toEqual([]);
+    expect(html).toContain('See <span>the site</span>, <span>home</span>, <a href="#contents">back</a>');
+    // The footnote still works: its reference and its list, linked both ways.
+    expect(html).toContain('href="#user-content-fn-1"');
+    expect(html).toContain('id="user-content-fn-1"');
+  });
+  it('Markdown: the references are written inline; no definition is left over', () => {
+    const md = toMarkdown(built);
+    expect(md).toContain('[back](#contents)');
+    expect(md).not.toMatch(/^\[x\]:/m);
+  });
+});
+
+describe('index.html, written one top-level block at a time', () => {
+  // The reference is remark-rehype and rehype-stringify converting the whole tree as one document.
+  const loaded = loadWorkspace(path.join(import.meta.dirname, '../../data/demo'));
+  if (!loaded.ok) throw new Error('no load');
+  const plan = planSummary(loaded.workspace, loaded.workspace.config.period.to);
+  const assessed = plan.assessments.filter((a): a is Assessed => a.status === 'assessed');
+  const scenes = new Map(assessed.map((a) => [a.characteristic.id, sceneOf(a, loaded.workspace.config.period)]));
+  const demo = tree(plan.assessments as Assessment[], loaded.workspace.templates, loaded.workspace.config).tree;
+  const same = (t: Root) => {
+    const input = { tree: t, title: 'Pack', scenes, fonts };
+    expect(toHtml(input)).toBe(toHtml(input, { whole: true }));
+  };
+  it('the demo pack (19 charts, tables, lists, cautions) is the same bytes as the whole document converted at once', () => {
+    expect(scenes.size).toBeGreaterThan(10);
+    same(demo);
+  });
+  it('blocks that make nothing (raw HTML, dropped) leave no blank lines behind; a lone block, an empty tree', () => {
+    const p = (value: string): Paragraph => ({ type: 'paragraph', children: [{ type: 'text', value }] });
+    same({ type: 'root', children: [p('a'), { type: 'html', value: '<b>x</b>' }, { type: 'html', value: '<i>y</i>' }, p('b'), { type: 'thematicBreak' }, { type: 'blockquote', children: [p('c')] }, { type: 'html', value: '<u>' }] });
+    same({ type: 'root', children: [p('only')] });
+    same({ type: 'root', children: [] });
   });
 });
 
