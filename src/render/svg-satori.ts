@@ -227,12 +227,13 @@ export class LabelPaths {
 
 /** Pieces laid out on the canvas, moved to their origin on the baseline, in font units. */
 function toOutline(paths: readonly string[]): Outline {
-  let commands = '';
+  // Joined once, not grown by += (a rope kept for the whole build; see compactTenths).
+  const commands: string[] = [];
   const coords: number[] = [];
   let y = false;
   for (const t of paths.join('').match(/[MLQCZ]|-?\d*\.?\d+/g) ?? []) {
     if (t >= 'A') {
-      commands += t;
+      commands.push(t);
       y = false;
       continue;
     }
@@ -241,7 +242,7 @@ function toOutline(paths: readonly string[]): Outline {
     coords.push(tenthX(y ? Number(t) - CANVAS.baseline : Number(t)) / 10);
     y = !y;
   }
-  return { commands, coords: Float64Array.from(coords) };
+  return { commands: commands.join(''), coords: Float64Array.from(coords) };
 }
 
 function geometryElement(p: Geometry): string {
