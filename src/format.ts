@@ -86,7 +86,10 @@ export function compactPath(d: string, options: { readonly fillOnly?: boolean } 
   const tokens = d.match(/[MLQCZ]|-?\d*\.?\d+/g);
   if (!tokens || /[^MLQCZ\d\s.,-]/.test(d)) return d;
   const r2 = (v: number) => Math.round(v * 100) / 100;
-  let out = '';
+  // Parts joined once, and whether the last part was a number kept aside: testing the end of a
+  // growing string flattened it at every step, copying a long data line over and over.
+  const out: string[] = [];
+  let afterNumber = false;
   let cx = 0;
   let cy = 0;
   let sx = 0;
@@ -97,13 +100,15 @@ export function compactPath(d: string, options: { readonly fillOnly?: boolean } 
   const num = (v: number) => {
     const s = tight(v);
     // A space only between two numbers that would otherwise merge.
-    out += /[\d.]$/.test(out) && !s.startsWith('-') ? ` ${s}` : s;
+    out.push(afterNumber && !s.startsWith('-') ? ` ${s}` : s);
+    afterNumber = true;
   };
   const read = () => r2(Number(tokens[i++]));
   while (i < tokens.length) {
     const cmd = tokens[i++]!;
     if (cmd === 'Z') {
-      out += 'z';
+      out.push('z');
+      afterNumber = false;
       cx = sx;
       cy = sy;
       last = 'z';
@@ -121,14 +126,18 @@ export function compactPath(d: string, options: { readonly fillOnly?: boolean } 
     // A line to where the pen already is draws nothing in a filled outline (satori writes many).
     if (options.fillOnly && cmd === 'L' && xs[0] === cx && xs[1] === cy) continue;
     if (cmd === 'M' && first) {
-      out += 'M';
+      out.push('M');
+      afterNumber = false;
       num(xs[0]!);
       num(xs[1]!);
       last = 'M';
     } else {
       const letter = cmd.toLowerCase();
       // A repeated command letter may be left out (SVG path grammar); m would turn into l, so moves always name theirs.
-      if (letter !== last || letter === 'm') out += letter;
+      if (letter !== last || letter === 'm') {
+        out.push(letter);
+        afterNumber = false;
+      }
       for (let k = 0; k < xs.length; k += 2) {
         num(r2(xs[k]! - cx));
         num(r2(xs[k + 1]! - cy));
@@ -143,7 +152,7 @@ export function compactPath(d: string, options: { readonly fillOnly?: boolean } 
       sy = cy;
     }
   }
-  return out;
+  return out.join('');
 }
 
 /** A whole number of tenths as `tight` writes the value: 5 → ".5", -12 → "-1.2", 30 → "3". */
