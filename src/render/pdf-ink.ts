@@ -17,6 +17,27 @@ export function pdfNum(v: number): string {
 
 export const rgbOperands = (c: RGB) => `${pdfNum(c.red)} ${pdfNum(c.green)} ${pdfNum(c.blue)}`;
 
+/** Strings longer than this are encoded each time: sentences seldom repeat, and the cache would hold them all. */
+const ENCODE_CACHED_CHARS = 40;
+const encodings = new WeakMap<PDFFont, Map<string, string>>();
+
+/**
+ * `font.encodeText(text)` as it appears in a content stream. pdf-lib shapes
+ * the text again on every call (a fontkit layout, most of the PDF stage's
+ * time on a plant); the same axis labels, dates and table words come back
+ * thousands of times. The result depends only on the text and the glyphs
+ * already in the font's subset, and a repeated call adds no glyph, so the
+ * first call's result is every later call's.
+ */
+export function encoded(font: PDFFont, text: string): string {
+  if (text.length > ENCODE_CACHED_CHARS) return font.encodeText(text).toString();
+  let known = encodings.get(font);
+  if (!known) encodings.set(font, (known = new Map()));
+  let hex = known.get(text);
+  if (hex === undefined) known.set(text, (hex = font.encodeText(text).toString()));
+  return hex;
+}
+
 export class PageInk {
   private readonly ops: string[] = [];
   private readonly fontKeys = new Map<PDFFont, string>();
@@ -42,7 +63,7 @@ export class PageInk {
 
   /** One line of text with its baseline starting at (x, y). */
   text(text: string, x: number, y: number, size: number, font: PDFFont, color: RGB): void {
-    this.ops.push(`${rgbOperands(color)} rg BT ${this.fontKey(font)} ${pdfNum(size)} Tf 1 0 0 1 ${pdfNum(x)} ${pdfNum(y)} Tm ${font.encodeText(text).toString()} Tj ET`);
+    this.ops.push(`${rgbOperands(color)} rg BT ${this.fontKey(font)} ${pdfNum(size)} Tf 1 0 0 1 ${pdfNum(x)} ${pdfNum(y)} Tm ${encoded(font, text)} Tj ET`);
   }
 
   /** A filled rectangle; (x, y) is its lower-left corner. */

@@ -13,6 +13,8 @@ import { PDFDocument } from 'pdf-lib';
 import { afterAll, describe, expect, it } from 'vitest';
 import { fontkit } from '../../src/render/fontkit.ts';
 import { drawScene } from '../../src/render/pdf-chart.ts';
+import { encoded } from '../../src/render/pdf-ink.ts';
+import { seeded } from '../../src/stats/random.ts';
 import { svgToPng } from '../../src/render/png.ts';
 import type { Scene } from '../../src/render/scene/types.ts';
 import { inlineSvg } from '../../src/render/svg-inline.ts';
@@ -216,5 +218,28 @@ describe('PDF drawing (pdf-lib)', () => {
     const ops = streams(bytes).join('\n');
     expect((ops.match(/ (l|re)\n/g) ?? []).length).toBeGreaterThan(100);
     expect((ops.match(/ c\n/g) ?? []).length).toBeGreaterThan(100);
+  });
+});
+
+describe('PDF text encoding, remembered per font', () => {
+  // pdf-lib numbers a subset's glyphs in the order they first appear, so a remembered encoding is
+  // only right if it is what encoding afresh at that point would give. Compared with a second
+  // document that encodes every string afresh (pdf-lib's own encodeText), over seeded sequences
+  // of repeating and new strings, long ones (not remembered) among them.
+  it('gives what pdf-lib gives for every string, in any order of first use', async () => {
+    const embed = async () => {
+      const doc = await PDFDocument.create();
+      doc.registerFontkit(fontkit);
+      return doc.embedFont(fonts.regular, { subset: true });
+    };
+    const next = seeded(11);
+    const words = ['UCL', 'LCL', '2026-11', '12.5', 'keep', 'freeze', 'ﬁne', 'Ω', 'x̄', 'Δ ±', 'a'.repeat(41), 'Moving range chart of the fill volume, line 1 (mL)'];
+    for (let run = 0; run < 5; run++) {
+      const [remembered, afresh] = [await embed(), await embed()];
+      for (let k = 0; k < 300; k++) {
+        const w = `${words[Math.floor(next() * words.length)]}${next() < 0.3 ? ` ${Math.floor(next() * 50)}` : ''}`;
+        expect(encoded(remembered, w), w).toBe(afresh.encodeText(w).toString());
+      }
+    }
   });
 });
