@@ -71,7 +71,7 @@ export interface PackOptions {
   /** Characteristics with more points are not cached (default MAX_CACHED_POINTS). */
   readonly maxCachedPoints?: number;
   /** Entries of an earlier build's cache, by key; absent: no cache is read or written. */
-  readonly cache?: (key: string) => { readonly entry: CacheEntry; readonly bytes: Uint8Array } | undefined;
+  readonly cache?: (key: string) => { readonly entry: CacheEntry; readonly bytes: () => Uint8Array } | undefined;
 }
 
 export const DEFAULT_OPTIONS: PackOptions = { paper: 'a4', png: false };
@@ -242,7 +242,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
       // An entry read back unchanged is written back as read; a new or grown one (a PNG added) is encoded afresh.
       const scene = scenes.get(a.characteristic.id) ?? null;
       const kept = hit && (!d || d.png === hit.entry.png || !d.png);
-      cache.set(entryPath(keys[i]!), kept ? () => hit.bytes : () => encodeEntry({ assessment: a, scene, svg: d?.svg ?? null, png: d?.png ?? null }));
+      cache.set(entryPath(keys[i]!), kept ? hit.bytes : () => encodeEntry({ assessment: a, scene, svg: d?.svg ?? null, png: d?.png ?? null }));
       if (kept) cacheKept.add(entryPath(keys[i]!));
     });
   }

@@ -53,21 +53,30 @@ export const entryPath = (key: string) => `${CACHE_DIR}/${key}.v8`;
 
 export const encodeEntry = (e: CacheEntry): Uint8Array => new Uint8Array(serialize(e));
 
-/** The entries an earlier build left in `packDir`, read on demand. */
-export function openCache(packDir: string): (key: string) => { entry: CacheEntry; bytes: Uint8Array } | undefined {
+/**
+ * The entries an earlier build left in `packDir`, read on demand. An entry's
+ * bytes are read again if they are asked for (a rebuild links the file
+ * instead, and only falls back to writing it where links cannot be made):
+ * a plant's entries are 200 MB that a rebuild held to the end.
+ */
+export function openCache(packDir: string): (key: string) => { entry: CacheEntry; bytes: () => Uint8Array } | undefined {
   return (key) => {
-    let bytes: Uint8Array;
+    const file = path.join(packDir, entryPath(key));
+    let entry: CacheEntry;
     try {
-      bytes = new Uint8Array(readFileSync(path.join(packDir, entryPath(key))));
+      entry = deserialize(readFileSync(file)) as CacheEntry;
     } catch {
       return undefined;
     }
-    try {
-      const entry = deserialize(bytes) as CacheEntry;
-      if (typeof entry !== 'object' || entry === null || typeof entry.assessment !== 'object') return undefined;
-      return { entry, bytes };
-    } catch {
-      return undefined;
-    }
+    if (typeof entry !== 'object' || entry === null || typeof entry.assessment !== 'object') return undefined;
+    const bytes = () => {
+      try {
+        return new Uint8Array(readFileSync(file));
+      } catch {
+        // Gone since it was read: the same entry, encoded again.
+        return encodeEntry(entry);
+      }
+    };
+    return { entry, bytes };
   };
 }
