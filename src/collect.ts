@@ -8,8 +8,9 @@
  * series and on the 1,000-characteristic plant (README, Performance):
  *
  * - the heap may grow by half of what is live before V8 collects
- *   (`--heap-growing-percent`, a V8 flag V8 reads whenever it sets the next
- *   limit), instead of V8's own factor of up to four;
+ *   (V8's `--heap-growing-percent`; set at run time it takes effect, as the
+ *   peaks measured with and without it show), instead of V8's own factor,
+ *   which let the heap reach 3.5 times what was live;
  * - at each stage's end, a full collection when the heap has grown by a
  *   quarter since the last one.
  *
