@@ -126,10 +126,6 @@ export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOption
 }
 
 async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed: number, startWorker: () => PagesWorker): Promise<PlannedPack> {
-  // Markdown and HTML go to another thread when the build may use two; it starts now, so that it has
-  // loaded its modules (about a second, through tsx) by the time the pack tree is ready: at 100
-  // characteristics, started after the tree it cost more than it saved (6.8 s against 6.2 s on one thread).
-  const pagesWorker = allowed > 1 ? startWorker() : undefined;
   // Reading the workspace left its own garbage (every row's fields and strings).
   collectIfGrown();
   let clock = performance.now();
@@ -144,6 +140,12 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   const hits = keys.map((k) => options.cache?.(k));
   const { assessments, diagnostics, integrity, exitCode, summaryFile, recordBytes, since } = summarise(ws, asOf, options, (i) => hits[i]?.entry.assessment);
   lap('analysis and summary.json');
+  // Markdown and HTML go to another thread when the build may use two. It starts now, so that it
+  // loads its modules (a few tenths of a second compiled, about a second through tsx) beside the
+  // scenes and charts: at 100 characteristics, started after the tree it cost more than it saved
+  // (6.8 s against 6.2 s on one thread). Not before the analysis: a long series' analysis is the
+  // build's peak of memory, and the idle thread's 50 MB added to it.
+  const pagesWorker = allowed > 1 ? startWorker() : undefined;
   const inputs = entries(ws.inputs);
   // One hash over the input hashes: the pack's fingerprint of what it was built from.
   const fingerprint = sha256(encoder.encode(inputs.map((i) => `${i.sha256}  ${i.path}`).join('\n')));
