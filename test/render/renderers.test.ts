@@ -243,3 +243,21 @@ describe('PDF text encoding, remembered per font', () => {
     }
   });
 });
+
+describe('one fontkit font per font file, shared by the metrics and every PDF', () => {
+  it('is parsed once, and each PDF still numbers its own subset’s glyphs from the first it uses', async () => {
+    expect(fontkit.create(fonts.regular)).toBe(fontkit.create(fonts.regular));
+    expect(fontkit.create(fonts.regular)).not.toBe(fontkit.create(fonts.semibold));
+    const embed = async () => {
+      const doc = await PDFDocument.create();
+      doc.registerFontkit(fontkit);
+      return doc.embedFont(fonts.regular, { subset: true });
+    };
+    const [first, second] = [await embed(), await embed()];
+    // In a subset, glyph 0 is .notdef; the glyphs a document uses are numbered 1, 2, … in order of first use.
+    expect(first.encodeText('b').toString()).toBe('<0001>');
+    expect(first.encodeText('a').toString()).toBe('<0002>');
+    expect(second.encodeText('a').toString()).toBe('<0001>');
+    expect(second.encodeText('ab').toString()).toBe('<00010002>');
+  });
+});
