@@ -16,6 +16,7 @@ import { spawnSync } from 'node:child_process';
 import { mkdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { normalFrom, seeded } from '../src/stats/random.ts';
+import { REVIEW_SETTINGS } from './plant.ts';
 
 const N = Number(process.env.LONG_POINTS ?? 1_000_000);
 const root = path.resolve('out/bench');
@@ -35,11 +36,7 @@ function writeSeries(): void {
       '# A synthetic workspace written by bench/long-series.ts for the benchmarks.',
       '# Fernhill Components, its spindle and every reading are fictional.',
       'title: Spindle temperature, minute by minute — November 2026 (fictional benchmark)',
-      'organisation: Fernhill Components (fictional)',
-      'period: {from: 2026-11-01, to: 2026-11-30}',
-      'rules: western-electric',
-      'minPoints: 5',
-      'freezeAfter: 20',
+      ...REVIEW_SETTINGS,
       'characteristics:',
       '  - id: spindle-temperature',
       '    name: Spindle temperature, machine 4',

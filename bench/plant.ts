@@ -61,6 +61,15 @@ export interface PlantOptions {
   readonly seed?: number;
 }
 
+/** The review.yaml lines every benchmark workspace shares: the fictional organisation, the review month, the rules. */
+export const REVIEW_SETTINGS = [
+  'organisation: Fernhill Components (fictional)',
+  'period: {from: 2026-11-01, to: 2026-11-30}',
+  'rules: western-electric',
+  'minPoints: 5',
+  'freezeAfter: 20',
+] as const;
+
 /** Writes the workspace into `dir` (replacing it) and returns the data file of each characteristic. */
 export function writePlant(dir: string, opts: PlantOptions): string[] {
   rmSync(dir, { recursive: true, force: true });
@@ -70,11 +79,7 @@ export function writePlant(dir: string, opts: PlantOptions): string[] {
     '# A synthetic workspace written by bench/plant.ts for the benchmarks.',
     '# Fernhill Components and every figure here are fictional.',
     `title: Monthly control-limit review — November 2026 (fictional benchmark plant, ${opts.characteristics} characteristics)`,
-    'organisation: Fernhill Components (fictional)',
-    'period: {from: 2026-11-01, to: 2026-11-30}',
-    'rules: western-electric',
-    'minPoints: 5',
-    'freezeAfter: 20',
+    ...REVIEW_SETTINGS,
     'characteristics:',
   ];
   const files: string[] = [];
