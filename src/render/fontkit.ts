@@ -71,8 +71,8 @@ function rememberLayouts(font: FontkitFont): FontkitFont {
  * parsed once and a word measured for a chart label is already shaped when
  * the PDF draws it. Both read layouts the same way (no features). pdf-lib
  * keeps its subset apart from the font object, so documents do not share
- * glyph numbers. At 100 characteristics the three parses and the shaping
- * twice were about a second of fontkit time.
+ * glyph numbers. Measured on the PDF stage of 100 characteristics, the
+ * first in a process: 1.63–1.81 s against 1.74–2.30 s with a font each.
  */
 const opened = new WeakMap<object, FontkitFont>();
 
