@@ -10,7 +10,6 @@
  * and prints the times, the ratios and the file sizes.
  * BENCH_SIZES (default "100,1000") picks the plants.
  */
-import { spawnSync } from 'node:child_process';
 import { mkdtempSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
@@ -18,6 +17,7 @@ import { pathToFileURL } from 'node:url';
 import { chromium } from 'playwright-core';
 import { planPack } from '../src/build.ts';
 import { loadWorkspace } from '../src/workspace/load.ts';
+import { type Measured, measure } from './child.ts';
 import { writePlant } from './plant.ts';
 
 const sizes = (process.env.BENCH_SIZES ?? '100,1000').split(',').map(Number);
@@ -25,12 +25,9 @@ const root = path.resolve('out/bench');
 const s = (ms: number) => `${(ms / 1000).toFixed(2)} s`;
 const mib = (b: number) => `${(b / (1 << 20)).toFixed(1)} MiB`;
 
-function build(ws: string, out: string): { wallMs: number; maxRssMiB: number } {
+function build(ws: string, out: string): Measured {
   rmSync(out, { recursive: true, force: true });
-  const run = spawnSync(process.execPath, [path.resolve('bench/build-child.mjs'), 'build', ws, '--out', out, '--no-cache', '-q'], { stdio: ['ignore', 'ignore', 'pipe'] });
-  const last = run.stderr.toString().trim().split('\n').at(-1) ?? '';
-  if (!last.startsWith('{')) throw new Error(`the build failed:\n${run.stderr.toString()}`);
-  return JSON.parse(last);
+  return measure(['build', ws, '--out', out, '--no-cache', '-q']);
 }
 
 console.log(`plumbline against Chromium's print to PDF (Debian chromium, playwright-core); Node ${process.version}`);

@@ -12,10 +12,10 @@
  * Everything it writes is invented: "Fernhill Components", its spindle and
  * every reading are fictional.
  */
-import { spawnSync } from 'node:child_process';
 import { mkdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { normalFrom, seeded } from '../src/stats/random.ts';
+import { measure } from './child.ts';
 import { REVIEW_SETTINGS } from './plant.ts';
 
 const N = Number(process.env.LONG_POINTS ?? 1_000_000);
@@ -61,14 +61,6 @@ function writeSeries(): void {
   writeFileSync(path.join(ws, 'data/spindle-temperature.csv'), `${rows.join('\n')}\n`);
 }
 
-/** Runs the CLI in a child process; its wall time and peak memory come back on its last stderr line. */
-function build(): { wallMs: number; maxRssMiB: number; code: number } {
-  const run = spawnSync(process.execPath, [path.resolve('bench/build-child.mjs'), 'build', ws, '--out', pack, '-q'], { stdio: ['ignore', 'ignore', 'pipe'], maxBuffer: 1 << 26 });
-  const last = run.stderr.toString().trim().split('\n').at(-1) ?? '';
-  if (!last.startsWith('{')) throw new Error(`the build failed:\n${run.stderr.toString()}`);
-  return JSON.parse(last) as { wallMs: number; maxRssMiB: number; code: number };
-}
-
 console.log(`plumbline long-series benchmark: one series of ${N.toLocaleString('en-GB')} minute readings (seeded, fictional), ${process.platform} ${process.arch}, Node ${process.version}`);
 let t = performance.now();
 writeSeries();
@@ -76,7 +68,7 @@ line('write the workspace', `${((performance.now() - t) / 1000).toFixed(1)} s, $
 rmSync(pack, { recursive: true, force: true });
 for (const run of ['first month (no previous pack)', 'second month (the first as previous)']) {
   t = performance.now();
-  const r = build();
+  const r = measure(['build', ws, '--out', pack, '-q']);
   const verdict = r.maxRssMiB <= GiB ? 'within' : 'over';
   line(`build, ${run}`, `${(r.wallMs / 1000).toFixed(1)} s, peak ${r.maxRssMiB.toFixed(0)} MiB (${verdict} the 1 GiB target), exit ${r.code}`);
 }

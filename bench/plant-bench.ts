@@ -30,6 +30,7 @@ import { createTextMetrics } from '../src/render/scene/text-metrics.ts';
 import { LabelPaths, renderStandaloneSvg } from '../src/render/svg-satori.ts';
 import { inlineSvg } from '../src/render/svg-inline.ts';
 import { loadWorkspace } from '../src/workspace/load.ts';
+import { measure } from './child.ts';
 import { writePlant } from './plant.ts';
 
 const N = Number(process.env.BENCH_CHARACTERISTICS ?? 1000);
@@ -44,14 +45,6 @@ const quantiles = (xs: number[]) => {
   return { median: s[Math.floor(s.length / 2)]!, p95: s[Math.min(s.length - 1, Math.ceil(s.length * 0.95) - 1)]! };
 };
 const line = (label: string, value: string) => console.log(`${label.padEnd(44)} ${value}`);
-
-/** Runs the CLI in a child process; its wall time and peak memory come back on its last stderr line. */
-function measure(args: string[]): { wallMs: number; maxRssMiB: number; code: number } {
-  const run = spawnSync(process.execPath, [path.resolve('bench/build-child.mjs'), ...args], { stdio: ['ignore', 'ignore', 'pipe'], maxBuffer: 1 << 26 });
-  const last = run.stderr.toString().trim().split('\n').at(-1) ?? '';
-  if (!last.startsWith('{')) throw new Error(`plumbline ${args.join(' ')} failed:\n${run.stderr.toString()}`);
-  return JSON.parse(last) as { wallMs: number; maxRssMiB: number; code: number };
-}
 
 function sizeOf(p: string): number {
   const st = statSync(p);
