@@ -81,6 +81,9 @@ export function fillTemplate(template: Template, values: Values): { nodes: RootC
       warning('template/unknown-placeholder', { file: template.file, ...(line ? { line } : {}) }, `{{${name}}} is not a placeholder this template can use; it is left as written.`),
     );
   const nodes: RootContent[] = [];
+  // Generated blocks go in as they are; a placeholder used a second time gets a copy, so no node sits
+  // in the tree twice (the writers may annotate nodes). Copying every block cost 0.9 s of a plant's 2.2 s tree.
+  const placed = new Set<string>();
   for (const node of tree.children) {
     if (node.type === 'paragraph' && node.children.length === 1 && node.children[0]!.type === 'text') {
       const m = WHOLE.exec(node.children[0]!.value.trim());
@@ -88,7 +91,8 @@ export function fillTemplate(template: Template, values: Values): { nodes: RootC
         const name = m[1]!;
         const blocks = values.blocks[name];
         if (blocks) {
-          nodes.push(...structuredClone(blocks as RootContent[]));
+          nodes.push(...(placed.has(name) ? structuredClone(blocks as RootContent[]) : blocks));
+          placed.add(name);
           continue;
         }
         if (!(name in values.strings)) {

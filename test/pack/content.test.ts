@@ -131,6 +131,16 @@ describe('templates', () => {
       new Set(['templates/characteristic.md:7:{{nonsense}}', 'templates/characteristic.md:9:{{typo}}']),
     );
   });
+  it('a placeholder used twice puts two copies in the tree, not one node twice (the writers annotate nodes)', () => {
+    const templates = { ...toolTemplates, characteristic: { file: 'templates/characteristic.md', text: '## {{name}}\n\n{{reasons}}\n\n### Again\n\n{{reasons}}\n' } };
+    const nodes = tree([stable()], templates).tree.children;
+    const again = nodes.findIndex((n) => n.type === 'heading' && n.depth === 3 && toMarkdown({ type: 'root', children: [n] }).trim() === '### Again');
+    const first = nodes[again - 1]!;
+    const second = nodes[again + 1]!;
+    expect(first.type).toBe('list');
+    expect(second).toEqual(first);
+    expect(second).not.toBe(first);
+  });
 });
 
 describe('reference links in a workspace template', () => {
