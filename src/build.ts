@@ -155,7 +155,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
 
   // Scenes here (every page needs them); charts from the cache are not drawn again.
   const scenes = new Map<string, Scene>();
-  const drawn = new Map<string, { svg: string; png: Uint8Array | null }>();
+  const drawn = new Map<string, { svg: Uint8Array; png: Uint8Array | null }>();
   const jobs: ChartJob[] = [];
   assessments.forEach((a, i) => {
     if (a.status !== 'assessed') return;
@@ -170,11 +170,14 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   const total = scenes.size;
   options.progress?.('charts', done, total);
   // Threads. With two or more, index.md and index.html are written on a worker while this thread
-  // lays out the PDF (1,000 characteristics on two cores: 38–43 s → 35 s). PNGs (resvg, about 50 ms a
-  // chart) go to a pool of their own beside the pages (300 characteristics: 39 s → 32 s). SVGs stay
-  // here: on a worker beside the PDF, or started early beside the analysis, they slowed both down.
-  const charts = drawCharts(jobs, options.png ? allowed - 1 : 0, (n) => options.progress?.('charts', (done += n), total));
-  if (!(options.png && allowed > 1)) {
+  // lays out the PDF (1,000 characteristics on two cores: 38–43 s → 35 s), and that worker then draws
+  // the SVGs, which it finishes before the PDF is laid out (a plant: the 2 s of SVGs left the
+  // build's wall time). In a pool of their own beside the PDF, or started early beside the
+  // analysis, SVGs slowed both down. PNGs (resvg, about 50 ms a chart) go to a pool of their own
+  // beside the pages (300 characteristics: 39 s → 32 s).
+  const svgsOnPagesWorker = pagesWorker !== undefined && !options.png;
+  const charts = svgsOnPagesWorker ? undefined : drawCharts(jobs, options.png ? allowed - 1 : 0, (n) => options.progress?.('charts', (done += n), total));
+  if (charts && !(options.png && allowed > 1)) {
     await charts;
     lap('charts');
   }
@@ -195,7 +198,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   lap('tree');
   const packDiagnostics = [...diagnostics, ...pack.diagnostics];
   // Markdown and HTML on the other thread, while this one lays out the PDF.
-  const pagesInput = { tree: pack.tree, title: ws.config.title, scenes };
+  const pagesInput = { tree: pack.tree, title: ws.config.title, scenes, ...(svgsOnPagesWorker ? { charts: jobs } : {}) };
   const textPages = pagesWorker ? pagesWorker.run(pagesInput) : writeTextPagesHere(pagesInput);
   lap(pagesWorker ? 'markdown and html sent' : 'markdown and html');
   options.progress?.('pages', 1, 2);
@@ -214,17 +217,19 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     }),
   );
   lap('pdf');
-  const { md, html } = await textPages;
+  const { md, html, charts: drawnWithPages } = await textPages;
   files.set('index.md', md);
   files.set('index.html', html);
-  if (pagesWorker) lap('markdown and html (waiting for the worker)');
+  if (pagesWorker) lap(svgsOnPagesWorker ? 'markdown, html and svgs (waiting for the worker)' : 'markdown and html (waiting for the worker)');
+  if (svgsOnPagesWorker) options.progress?.('charts', total, total);
   options.progress?.('pages', 2, 2);
-  for (const r of await charts) drawn.set(r.id, { svg: r.svg, png: r.png });
+  if (charts) for (const r of await charts) drawn.set(r.id, { svg: encoder.encode(r.svg), png: r.png });
+  else for (const r of drawnWithPages) drawn.set(r.id, { svg: r.svg, png: null });
   if (options.png && allowed > 1) lap('charts (waiting for the workers)');
   for (const a of assessments) {
     const d = drawn.get(a.characteristic.id);
     if (!d) continue;
-    files.set(chartFile(a.characteristic.id), encoder.encode(d.svg));
+    files.set(chartFile(a.characteristic.id), d.svg);
     if (options.png && d.png) files.set(`charts/${a.characteristic.id}.png`, d.png);
   }
   const placed = new Map<string, { readonly bytes: number; readonly sha256: string }>();

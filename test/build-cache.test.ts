@@ -97,6 +97,16 @@ describe('threads', () => {
     expect(hashTree(three)).toEqual(a);
   }, 180_000);
 
+  it('writes the same SVGs and pack with one thread as with two, where the pages worker draws the SVGs', () => {
+    const one = path.join(temp, 'svg-jobs-1');
+    const two = path.join(temp, 'svg-jobs-2');
+    expect(cli('build', path.join(ROOT, 'data/demo'), '--out', one, '--jobs', '1', '--no-cache', '-q').code).toBe(0);
+    expect(cli('build', path.join(ROOT, 'data/demo'), '--out', two, '--jobs', '2', '--no-cache', '-q').code).toBe(0);
+    const a = hashTree(one);
+    expect(Object.keys(a).filter((f) => f.endsWith('.svg'))).toHaveLength(19);
+    expect(hashTree(two)).toEqual(a);
+  }, 180_000);
+
   it('refuses a --jobs that is not a whole number from 1 to 256', () => {
     for (const bad of ['0', '1.5', 'many', '257']) {
       const r = cli('build', path.join(ROOT, 'data/demo'), '--out', path.join(temp, 'never'), '--jobs', bad);

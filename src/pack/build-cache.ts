@@ -23,13 +23,14 @@ import type { CharacteristicInput, Workspace } from '../workspace/load.ts';
 
 export const CACHE_DIR = '.plumbline-cache';
 /** Bump when what an entry holds, or how it is computed, changes without a tool version change. */
-const FORMAT = 1;
+const FORMAT = 2;
 
 export interface CacheEntry {
   readonly assessment: Assessment;
   /** Null for a characteristic that could not be assessed. */
   readonly scene: Scene | null;
-  readonly svg: string | null;
+  /** The standalone SVG file's bytes. */
+  readonly svg: Uint8Array | null;
   /** Drawn only by builds that asked for PNGs; drawn from `svg` when a later build asks. */
   readonly png: Uint8Array | null;
 }

@@ -1,12 +1,14 @@
 /**
  * index.md and index.html, written on another thread when there is one to
  * spare: both are serialisations of the pack tree (remark, rehype) that
- * need nothing the PDF layout needs in turn, and on a plant's pack they
- * take about as long as the PDF does, so the two run side by side.
+ * need nothing the PDF layout needs in turn. On a plant's pack they take
+ * about half as long as the PDF does, so that thread then draws the
+ * standalone SVGs too, and the three run beside the PDF.
  */
 import { Worker } from 'node:worker_threads';
 import type { Root } from 'mdast';
 import { loadFonts } from '../render/fonts.ts';
+import { type ChartJob, drawCharts } from '../render/pool/chart-pool.ts';
 import type { Scene } from '../render/scene/types.ts';
 import { workerEntry } from '../worker-entry.ts';
 
@@ -14,11 +16,21 @@ export interface TextPagesInput {
   readonly tree: Root;
   readonly title: string;
   readonly scenes: ReadonlyMap<string, Scene>;
+  /** Standalone SVGs to draw once the pages are written (the worker has time to spare while the PDF is laid out). */
+  readonly charts?: readonly ChartJob[];
+}
+
+/** A standalone SVG as its file's bytes: moved, not copied, from the worker. */
+export interface SvgFile {
+  readonly id: string;
+  readonly svg: Uint8Array;
 }
 
 export interface TextPages {
   readonly md: Uint8Array;
   readonly html: Uint8Array;
+  /** The SVG files of the `charts` asked for, in their order. */
+  readonly charts: readonly SvgFile[];
 }
 
 const encoder = new TextEncoder();
@@ -32,10 +44,10 @@ export const loadTextWriters = () => Promise.all([import('./html.ts'), import('.
 
 export async function writeTextPagesHere(input: TextPagesInput): Promise<TextPages> {
   const [{ toHtml }, { toMarkdown }] = await loadTextWriters();
-  return {
-    md: encoder.encode(toMarkdown(input.tree)),
-    html: encoder.encode(toHtml({ tree: input.tree, title: input.title, scenes: input.scenes, fonts: loadFonts() })),
-  };
+  const md = encoder.encode(toMarkdown(input.tree));
+  const html = encoder.encode(toHtml({ tree: input.tree, title: input.title, scenes: input.scenes, fonts: loadFonts() }));
+  const charts = input.charts?.length ? (await drawCharts(input.charts, 0)).map((r) => ({ id: r.id, svg: encoder.encode(r.svg) })) : [];
+  return { md, html, charts };
 }
 
 /** A worker for the pages: `run` hands it the pages to write, `stop` ends it (unused or not). */
