@@ -18,11 +18,11 @@ import { spawnSync } from 'node:child_process';
 import { readFileSync, readdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { toHtml as hast } from 'hast-util-to-html';
-import { PDFDocument } from 'pdf-lib';
 import { planSummary } from '../src/assess.ts';
 import { loadFonts } from '../src/render/fonts.ts';
 import { fontkit } from '../src/render/fontkit.ts';
 import { drawScene } from '../src/render/pdf-chart.ts';
+import { SheetInk } from '../src/render/pdf-ink.ts';
 import { svgToPng } from '../src/render/png.ts';
 import { layoutChart } from '../src/render/scene/layout.ts';
 import { chartSpec } from '../src/render/scene/spec.ts';
@@ -102,9 +102,7 @@ const metrics = createTextMetrics(fonts);
 const assessed = plan.assessments.filter((a) => a.status === 'assessed');
 const sample = assessed.filter((_, i) => i % Math.max(1, Math.floor(assessed.length / 200)) === 0);
 const times = { scene: [] as number[], 'svg (satori, labels cached)': [] as number[], 'svg (satori, first chart: glyphs laid out)': [] as number[], 'inline svg (html)': [] as number[], png: [] as number[], pdf: [] as number[] };
-const doc = await PDFDocument.create({ updateMetadata: false });
-doc.registerFontkit(fontkit);
-const pdfFonts = { regular: await doc.embedFont(fonts.regular, { subset: true }), semibold: await doc.embedFont(fonts.semibold, { subset: true }) };
+const pdfFaces = { regular: { key: 'F0', font: fontkit.create(fonts.regular) }, semibold: { key: 'F1', font: fontkit.create(fonts.semibold) } };
 const shared = new LabelPaths(fonts);
 for (const a of sample) {
   let s = performance.now();
@@ -124,7 +122,8 @@ for (const a of sample) {
   svgToPng(svg, [fonts.regularPath, fonts.semiboldPath], scene.width * 2);
   times.png.push(performance.now() - s);
   s = performance.now();
-  drawScene(doc.addPage([scene.width, scene.height]), scene, { x: 0, top: scene.height, scale: 1 }, pdfFonts);
+  // The chart's page operators (the PDF stage compresses and joins them afterwards).
+  drawScene(new SheetInk(), scene, { x: 0, top: scene.height, scale: 1 }, pdfFaces);
   times.pdf.push(performance.now() - s);
 }
 for (const [name, xs] of Object.entries(times)) {

@@ -2,6 +2,7 @@
  * From a loaded workspace to the planned pack: every output file with its
  * bytes, decided before anything is written (the pack writer writes them).
  */
+import { serialize } from 'node:v8';
 import type { Assessment } from './analyse.ts';
 import { collectIfGrown } from './collect.ts';
 import { planSummary, sha256 } from './assess.ts';
@@ -12,7 +13,7 @@ import { buildPackTree } from './pack/content.ts';
 import { jsonBytes, jsonChunks } from './pack/json-bytes.ts';
 import type { FileSink } from './pack/write.ts';
 import { type PagesWorker, startPagesWorker, writeTextPagesHere } from './pack/text-pages.ts';
-import { type Paper, toPdf } from './pack/pdf.ts';
+import { type LaidOutPart, type Paper, toPdf } from './pack/pdf.ts';
 import { loadFonts } from './render/fonts.ts';
 import { svgToPng } from './render/png.ts';
 import { layoutChart } from './render/scene/layout.ts';
@@ -20,7 +21,7 @@ import { chartSpec } from './render/scene/spec.ts';
 import { createTextMetrics } from './render/scene/text-metrics.ts';
 import type { Scene } from './render/scene/types.ts';
 import { type ChartJob, defaultJobs, drawCharts } from './render/pool/chart-pool.ts';
-import { type CacheEntry, cacheKey, encodeEntry, entryPath } from './pack/build-cache.ts';
+import { type CacheEntry, cacheKey, encodeEntry, entryPath, partKey, partPath } from './pack/build-cache.ts';
 import { RECORD_FILE, type SummaryLike, compareSummaries, comparisonRecord } from './review/since.ts';
 import { TOOL } from './version.ts';
 import type { Workspace } from './workspace/load.ts';
@@ -72,6 +73,8 @@ export interface PackOptions {
   readonly maxCachedPoints?: number;
   /** Entries of an earlier build's cache, by key; absent: no cache is read or written. */
   readonly cache?: (key: string) => { readonly entry: CacheEntry; readonly bytes: () => Uint8Array } | undefined;
+  /** Laid-out parts of an earlier build's pack.pdf, by part key (read only when `cache` is given). */
+  readonly partCache?: (key: string) => { readonly part: LaidOutPart; readonly bytes: () => Uint8Array } | undefined;
 }
 
 export const DEFAULT_OPTIONS: PackOptions = { paper: 'a4', png: false };
@@ -202,20 +205,35 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   const textPages = pagesWorker ? pagesWorker.run(pagesInput) : writeTextPagesHere(pagesInput);
   lap(pagesWorker ? 'markdown and html sent' : 'markdown and html');
   options.progress?.('pages', 1, 2);
-  files.set(
-    'pack.pdf',
-    await toPdf({
-      tree: pack.tree,
-      title: ws.config.title,
-      subject: `Control-limit review, ${ws.config.period.from} to ${ws.config.period.to}`,
-      author: ws.config.organisation,
-      asOf,
-      paper: options.paper,
-      scenes,
-      fonts,
-      producer: `${TOOL.name} ${TOOL.version}`,
-    }),
-  );
+  // pack.pdf's parts are kept in the cache by a key over their nodes and their charts' characteristics.
+  const keyOfChart = new Map(options.cache ? ws.characteristics.map((c, i) => [c.characteristic.id, keys[i]!] as const) : []);
+  const partKeys: (string | undefined)[] = [];
+  const partsKept = new Map<string, () => Uint8Array>();
+  const pdf = await toPdf({
+    tree: pack.tree,
+    title: ws.config.title,
+    subject: `Control-limit review, ${ws.config.period.from} to ${ws.config.period.to}`,
+    author: ws.config.organisation,
+    asOf,
+    paper: options.paper,
+    scenes,
+    fonts,
+    producer: `${TOOL.name} ${TOOL.version}`,
+    reuse: (i, nodes) => {
+      if (!options.cache) return undefined;
+      const charts: string[] = [];
+      for (const n of nodes) {
+        if (n.type !== 'paragraph' || n.children.length !== 1 || n.children[0]!.type !== 'image') continue;
+        const id = n.children[0]!.data?.chartId;
+        if (id !== undefined) charts.push(keyOfChart.get(id) ?? `unknown ${id}`);
+      }
+      const key = (partKeys[i] = partKey(nodes, charts, options.paper));
+      const hit = options.partCache?.(key);
+      if (hit) partsKept.set(key, hit.bytes);
+      return hit?.part;
+    },
+  });
+  files.set('pack.pdf', pdf.bytes);
   lap('pdf');
   const { md, html, charts: drawnWithPages } = await textPages;
   files.set('index.md', md);
@@ -251,6 +269,13 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
       const kept = hit && (!d || d.png === hit.entry.png || !d.png);
       cache.set(entryPath(keys[i]!), kept ? hit.bytes : () => encodeEntry({ assessment: a, scene, svg: d?.svg ?? null, png: d?.png ?? null }));
       if (kept) cacheKept.add(entryPath(keys[i]!));
+    });
+    pdf.parts.forEach((part, i) => {
+      const key = partKeys[i];
+      if (key === undefined) return;
+      const kept = partsKept.get(key);
+      cache.set(partPath(key), kept ?? (() => new Uint8Array(serialize(part))));
+      if (kept) cacheKept.add(partPath(key));
     });
   }
   lap('manifest and cache');

@@ -15,15 +15,17 @@ import { createHash } from 'node:crypto';
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { deserialize, serialize } from 'node:v8';
+import type { RootContent } from 'mdast';
 import type { Assessment } from '../analyse.ts';
 import type { IsoDate } from '../model.ts';
 import type { Scene } from '../render/scene/types.ts';
+import type { LaidOutPart, Paper } from './pdf.ts';
 import { TOOL } from '../version.ts';
 import type { CharacteristicInput, Workspace } from '../workspace/load.ts';
 
 export const CACHE_DIR = '.plumbline-cache';
 /** Bump when what an entry holds, or how it is computed, changes without a tool version change. */
-const FORMAT = 2;
+const FORMAT = 3;
 
 export interface CacheEntry {
   readonly assessment: Assessment;
@@ -79,5 +81,42 @@ export function openCache(packDir: string): (key: string) => { entry: CacheEntry
       }
     };
     return { entry, bytes };
+  };
+}
+
+/**
+ * The key of one part of pack.pdf (a level-2 section, laid out alone): the
+ * tool, the paper, the part's nodes and the keys of the characteristics
+ * whose charts it draws (their scenes are made from what those keys hash).
+ */
+export function partKey(nodes: readonly RootContent[], chartKeys: readonly string[], paper: Paper): string {
+  return createHash('sha256').update(JSON.stringify([FORMAT, TOOL, paper, chartKeys, nodes])).digest('hex');
+}
+
+export const partPath = (key: string) => `${CACHE_DIR}/pdf-${key}.v8`;
+
+const isPart = (p: unknown): p is LaidOutPart =>
+  typeof p === 'object' && p !== null && Array.isArray((p as LaidOutPart).sheets) && (p as LaidOutPart).sheets.every((s) => s instanceof Uint8Array) &&
+  Array.isArray((p as LaidOutPart).anchors) && Array.isArray((p as LaidOutPart).links) && Array.isArray((p as LaidOutPart).contentsLines) && Array.isArray((p as LaidOutPart).opacities) && Array.isArray((p as LaidOutPart).shaped);
+
+/** The laid-out PDF parts an earlier build left in `packDir`, read on demand (as openCache). */
+export function openPartCache(packDir: string): (key: string) => { part: LaidOutPart; bytes: () => Uint8Array } | undefined {
+  return (key) => {
+    const file = path.join(packDir, partPath(key));
+    let part: unknown;
+    try {
+      part = deserialize(readFileSync(file));
+    } catch {
+      return undefined;
+    }
+    if (!isPart(part)) return undefined;
+    const bytes = () => {
+      try {
+        return new Uint8Array(readFileSync(file));
+      } catch {
+        return new Uint8Array(serialize(part));
+      }
+    };
+    return { part, bytes };
   };
 }

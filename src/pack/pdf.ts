@@ -5,13 +5,23 @@
  * vectors from their scenes; tables break between rows and repeat their
  * header. Output is byte-identical for identical inputs: the document dates
  * are the build date and nothing random is written.
+ *
+ * Since every level-2 heading starts a page, the tree falls into parts (a
+ * level-2 heading and what follows it) whose pages do not depend on one
+ * another: each part is laid out alone into sheets, content streams that
+ * name fonts and glyphs the same in any document (pdf-ink.ts), and the
+ * document is then assembled from them, with page numbers, the contents
+ * page's numbers and the links added last. A part laid out by an earlier
+ * build (the build cache) is used as it is.
  */
+import { deflateSync } from 'node:zlib';
 import type { Code, Heading, List, PhrasingContent, Root, RootContent, Table } from 'mdast';
-import { PDFArray, PDFDocument, type PDFFont, PDFName, type PDFPage, rgb } from 'pdf-lib';
+import { PDFDocument, PDFName, type PDFRef, rgb } from 'pdf-lib';
 import { fontkit } from '../render/fontkit.ts';
-import { type PdfFonts, drawScene } from '../render/pdf-chart.ts';
+import { type PdfFaces, drawScene } from '../render/pdf-chart.ts';
 import { useNativeDeflate } from '../render/pdf-deflate.ts';
-import { PageInk } from '../render/pdf-ink.ts';
+import { embedWholeFont } from '../render/pdf-font.ts';
+import { type Face, SheetInk, opacityKey, textWidth } from '../render/pdf-ink.ts';
 import type { Scene } from '../render/scene/types.ts';
 import { plain } from './mdast.ts';
 
@@ -28,6 +38,37 @@ export interface PdfInput {
   readonly scenes: ReadonlyMap<string, Scene>;
   readonly fonts: { readonly regular: Uint8Array; readonly semibold: Uint8Array };
   readonly producer: string;
+  /** A part laid out by an earlier build, if one is known for part `index` (nodes as splitParts gives them). */
+  readonly reuse?: (index: number, nodes: readonly RootContent[]) => LaidOutPart | undefined;
+}
+
+/** One part's pages, ready to join a document: plain data, kept in the build cache. */
+export interface LaidOutPart {
+  /** Each page's content stream, Flate-compressed. */
+  readonly sheets: readonly Uint8Array[];
+  /** Fill and stroke opacities the sheets use (graphics states the document must define). */
+  readonly opacities: readonly number[];
+  /** Heading ids and where they are: the sheet (within the part) and the top of the heading. */
+  readonly anchors: readonly (readonly [id: string, sheet: number, y: number])[];
+  /** Internal links on the sheets, to heading ids. */
+  readonly links: readonly LinkBox[];
+  /** Glyphs the fonts' cmaps do not reach, with their text: [face key, glyph number, text]. */
+  readonly shaped: readonly (readonly [face: string, glyph: number, text: string])[];
+  /** Contents entries: the line's sheet and top, and the heading it lists (its page number is added when pages are known). */
+  readonly contentsLines: readonly { readonly sheet: number; readonly y: number; readonly target: string }[];
+}
+
+/**
+ * The tree's top-level nodes in parts: what comes before the first level-2
+ * heading (the cover), then each level-2 heading with what follows it.
+ */
+export function splitParts(tree: Root): RootContent[][] {
+  const parts: RootContent[][] = [];
+  for (const node of tree.children) {
+    if ((node.type === 'heading' && node.depth === 2) || parts.length === 0) parts.push([]);
+    parts[parts.length - 1]!.push(node);
+  }
+  return parts;
 }
 
 const MARGIN = { left: 50, right: 50, top: 54, bottom: 58 };
@@ -45,6 +86,7 @@ interface Run {
 }
 
 interface LinkBox {
+  /** The sheet within its part while laid out; the page within the document when assembled. */
   readonly page: number;
   readonly rect: readonly [number, number, number, number];
   readonly target: string;
@@ -83,58 +125,59 @@ function runsOf(nodes: readonly PhrasingContent[], bold = false, link?: string):
   return out;
 }
 
-export async function toPdf(input: PdfInput): Promise<Uint8Array> {
-  useNativeDeflate();
-  const doc = await PDFDocument.create({ updateMetadata: false });
-  doc.registerFontkit(fontkit);
-  const regular = await doc.embedFont(input.fonts.regular, { subset: true });
-  const semibold = await doc.embedFont(input.fonts.semibold, { subset: true });
-  const fonts: PdfFonts = { regular, semibold };
-  const asOf = new Date(`${input.asOf}T00:00:00Z`);
-  doc.setTitle(clean(input.title), { showInWindowTitleBar: true });
-  doc.setSubject(clean(input.subject));
-  doc.setAuthor(clean(input.author));
-  doc.setCreator(input.producer);
-  doc.setProducer(input.producer);
-  doc.setCreationDate(asOf);
-  doc.setModificationDate(asOf);
-  doc.setLanguage('en');
+/** The glyphs that sheets drew and the cmaps do not reach, each once, in a fixed order. */
+function shapedOf(sheets: readonly SheetInk[]): [string, number, string][] {
+  const all = new Map<string, [string, number, string]>();
+  for (const s of sheets) for (const [face, m] of s.shaped) for (const [g, t] of m) if (!all.has(`${face} ${g}`)) all.set(`${face} ${g}`, [face, g, t]);
+  return [...all.values()].sort((a, b) => (a[0] < b[0] ? -1 : a[0] > b[0] ? 1 : a[1] - b[1]));
+}
 
-  const [pageW, pageH] = PAPER[input.paper];
+interface LayoutContext {
+  readonly paper: Paper;
+  readonly scenes: ReadonlyMap<string, Scene>;
+  readonly faces: PdfFaces;
+}
+
+/** The faces of the pack's two fonts, under the resource names every sheet uses. */
+function facesOf(fonts: PdfInput['fonts']): PdfFaces {
+  return { regular: { key: 'F0', font: fontkit.create(fonts.regular) }, semibold: { key: 'F1', font: fontkit.create(fonts.semibold) } };
+}
+
+// pdf-lib shapes the text on every width query; tables and wrapping ask
+// for the same words again and again, so widths at size 1 are remembered.
+const widthCache = new WeakMap<Face, Map<string, number>>();
+
+/**
+ * Lays out one part (its first node a level-2 heading, or the cover part:
+ * `first`) from the top of a new page.
+ */
+export function layoutPart(nodes: readonly RootContent[], first: boolean, context: LayoutContext): LaidOutPart {
+  const { regular, semibold } = context.faces;
+  const [pageW, pageH] = PAPER[context.paper];
   const width = pageW - MARGIN.left - MARGIN.right;
-  const pages: PDFPage[] = [];
-  const anchors = new Map<string, { page: number; y: number }>();
+  const pages: SheetInk[] = [];
+  const anchors: [string, number, number][] = [];
   const links: LinkBox[] = [];
-  const contentsLines: { page: number; y: number; target: string }[] = [];
-  let page!: PDFPage;
+  const contentsLines: { sheet: number; y: number; target: string }[] = [];
+  let page!: SheetInk;
   let y = 0;
 
-  const inks = new Map<PDFPage, PageInk>();
-  const ink = (p: PDFPage) => {
-    let k = inks.get(p);
-    if (!k) inks.set(p, (k = new PageInk(p)));
-    return k;
-  };
+  const ink = (p: SheetInk) => p;
   const newPage = () => {
-    page = doc.addPage([pageW, pageH]);
+    page = new SheetInk();
     pages.push(page);
     y = pageH - MARGIN.top;
   };
   const ensure = (h: number) => {
     if (y - h < MARGIN.bottom) newPage();
   };
-  const fontOf = (r: Run): PDFFont => (r.bold ? semibold : regular);
-  // pdf-lib shapes the text on every width query; tables and wrapping ask
-  // for the same words again and again, so remember widths at size 1.
-  const widths = new Map<PDFFont, Map<string, number>>([
-    [regular, new Map()],
-    [semibold, new Map()],
-  ]);
-  const widthOf = (font: PDFFont, text: string, size: number): number => {
-    const cache = widths.get(font)!;
+  const fontOf = (r: Run): Face => (r.bold ? semibold : regular);
+  const widthOf = (face: Face, text: string, size: number): number => {
+    let cache = widthCache.get(face);
+    if (!cache) widthCache.set(face, (cache = new Map()));
     let w = cache.get(text);
     if (w === undefined) {
-      w = font.widthOfTextAtSize(text, 1);
+      w = textWidth(face.font, text, 1);
       cache.set(text, w);
     }
     return w * size;
@@ -242,10 +285,10 @@ export async function toPdf(input: PdfInput): Promise<Uint8Array> {
     const size = h.depth === 1 ? 22 : h.depth === 2 ? 15 : 11.5;
     if (h.depth === 2 && y < pageH - MARGIN.top - 1) newPage();
     // The cover's title sits a third of the way down its page.
-    if (h.depth === 1 && pages.length === 1 && y >= pageH - MARGIN.top - 1) y = pageH * 0.7;
+    if (h.depth === 1 && first && pages.length === 1 && y >= pageH - MARGIN.top - 1) y = pageH * 0.7;
     ensure(size * 1.3 + 70);
     const id = (h.data?.hProperties as { id?: string } | undefined)?.id;
-    if (id) anchors.set(id, { page: pages.length - 1, y: y + 4 });
+    if (id) anchors.push([id, pages.length - 1, y + 4]);
     if (h.depth > 1) y -= h.depth === 2 ? 0 : 6;
     const used = flow(runsOf(h.children, true), MARGIN.left, width, size, size * 1.25);
     y -= used;
@@ -265,7 +308,7 @@ export async function toPdf(input: PdfInput): Promise<Uint8Array> {
             const target = runs.find((r) => r.link)?.link?.slice(1);
             // The whole line links to its section (added below with the page number), so the words carry no link of their own.
             flow(runs.map((r) => ({ text: r.text, bold: r.bold })), x, maxW - 40, 10.5, 15);
-            if (target) contentsLines.push({ page: pages.length - 1, y, target });
+            if (target) contentsLines.push({ sheet: pages.length - 1, y, target });
             y -= 16;
             continue;
           }
@@ -361,7 +404,7 @@ export async function toPdf(input: PdfInput): Promise<Uint8Array> {
     const scale = Math.min(1, maxW / scene.width);
     const h = scene.height * scale;
     ensure(h + 6);
-    drawScene(page, scene, { x, top: y, scale }, fonts);
+    drawScene(page, scene, { x, top: y, scale }, context.faces);
     y -= h + 8;
   };
 
@@ -376,7 +419,7 @@ export async function toPdf(input: PdfInput): Promise<Uint8Array> {
       case 'paragraph': {
         const only = node.children.length === 1 ? node.children[0] : undefined;
         if (only?.type === 'image' && only.data?.chartId) {
-          const scene = input.scenes.get(only.data.chartId);
+          const scene = context.scenes.get(only.data.chartId);
           if (scene) chartBlock(scene, x, maxW);
           break;
         }
@@ -409,18 +452,101 @@ export async function toPdf(input: PdfInput): Promise<Uint8Array> {
   };
 
   newPage();
-  for (const node of input.tree.children) block(node);
+  for (const node of nodes) block(node);
+  const opacities = new Set<number>();
+  for (const p of pages) for (const o of p.opacities) opacities.add(o);
+  return {
+    shaped: shapedOf(pages),
+    // Compressed here, so that a part kept in the cache is ready to write (level 6, zlib's default).
+    sheets: pages.map((p) => new Uint8Array(deflateSync(p.content(), { level: 6 }))),
+    opacities: [...opacities].sort((a, b) => a - b),
+    anchors,
+    links,
+    contentsLines,
+  };
+}
+
+export async function toPdf(input: PdfInput): Promise<{ bytes: Uint8Array; parts: LaidOutPart[] }> {
+  useNativeDeflate();
+  const doc = await PDFDocument.create({ updateMetadata: false });
+  const asOf = new Date(`${input.asOf}T00:00:00Z`);
+  doc.setTitle(clean(input.title), { showInWindowTitleBar: true });
+  doc.setSubject(clean(input.subject));
+  doc.setAuthor(clean(input.author));
+  doc.setCreator(input.producer);
+  doc.setProducer(input.producer);
+  doc.setCreationDate(asOf);
+  doc.setModificationDate(asOf);
+  doc.setLanguage('en');
+
+  const faces = facesOf(input.fonts);
+  const context: LayoutContext = { paper: input.paper, scenes: input.scenes, faces };
+  const parts = splitParts(input.tree).map((nodes, i) => input.reuse?.(i, nodes) ?? layoutPart(nodes, i === 0, context));
+  assemble(doc, parts, input.fonts, faces, PAPER[input.paper], clean(input.title));
+  return { bytes: await doc.save({ useObjectStreams: false }), parts };
+}
+
+/**
+ * One chart on a page of its own size, through the pack's own drawing and
+ * assembly (tests and the benchmark read it back).
+ */
+export async function scenePdf(scene: Scene, fonts: PdfInput['fonts']): Promise<Uint8Array> {
+  useNativeDeflate();
+  const doc = await PDFDocument.create({ updateMetadata: false });
+  const faces = facesOf(fonts);
+  const ink = new SheetInk();
+  drawScene(ink, scene, { x: 20, top: scene.height + 20, scale: 1 }, faces);
+  const part: LaidOutPart = { sheets: [new Uint8Array(deflateSync(ink.content()))], opacities: [...ink.opacities], shaped: shapedOf([ink]), anchors: [], links: [], contentsLines: [] };
+  assemble(doc, [part], fonts, faces, [scene.width + 40, scene.height + 40], null);
+  return doc.save({ useObjectStreams: false });
+}
+
+/**
+ * The document's pages from the parts, in order, with the fonts, one
+ * resource dictionary, the contents page's numbers, the links and, where
+ * `footer` is given, a footer with it and the page number on every page.
+ */
+function assemble(doc: PDFDocument, parts: readonly LaidOutPart[], fonts: PdfInput['fonts'], faces: PdfFaces, size: readonly [number, number], footer: string | null): void {
+  // The fonts are embedded once what the pages draw is known (pdf-font.ts), as Font objects that
+  // come before the pages, as pdf-lib's own embedding put them.
+  const fontRefs = { F0: doc.context.nextRef(), F1: doc.context.nextRef() };
+  const [pageW, pageH] = size;
+  const width = pageW - MARGIN.left - MARGIN.right;
+  // One resource dictionary for every page: the two fonts and each opacity's graphics state.
+  const opacities = [...new Set(parts.flatMap((p) => p.opacities))].sort((a, b) => a - b);
+  const states = Object.fromEntries(opacities.map((o) => [opacityKey(o), doc.context.register(doc.context.obj({ Type: 'ExtGState', ca: o, CA: o }))]));
+  const resources = doc.context.register(doc.context.obj({ Font: fontRefs, ...(opacities.length ? { ExtGState: states } : {}) }));
+  const pageRefs: PDFRef[] = [];
+  const anchors = new Map<string, { page: number; y: number }>();
+  const links: LinkBox[] = [];
+  const contentsLines: { page: number; y: number; target: string }[] = [];
+  const bodies: PDFRef[] = [];
+  for (const part of parts) {
+    const first = pageRefs.length;
+    for (const sheet of part.sheets) {
+      const page = doc.addPage([pageW, pageH]);
+      page.node.set(PDFName.of('Resources'), resources);
+      pageRefs.push(page.ref);
+      bodies.push(doc.context.register(doc.context.stream(sheet, { Filter: 'FlateDecode' })));
+    }
+    // The first anchor of an id wins, as before.
+    for (const [id, sheet, y] of part.anchors) if (!anchors.has(id)) anchors.set(id, { page: first + sheet, y });
+    for (const l of part.links) links.push({ ...l, page: first + l.page });
+    for (const c of part.contentsLines) contentsLines.push({ page: first + c.sheet, y: c.y, target: c.target });
+  }
+  const extras = pageRefs.map(() => new SheetInk());
+  const widthOf = (face: Face, text: string, size: number) => textWidth(face.font, text, size);
 
   // Contents page numbers and every internal link, now that pages are known.
   for (const line of contentsLines) {
     const target = anchors.get(line.target);
     if (!target) continue;
     const label = String(target.page + 1);
-    const p = pages[line.page]!;
     // line.y is the top of the entry's line; its baseline sits 0.95 of the size below.
-    ink(p).text(label, MARGIN.left + width - widthOf(regular, label, 10.5), line.y - 10.5 * 0.95, 10.5, regular, INK);
+    extras[line.page]!.text(label, MARGIN.left + width - widthOf(faces.regular, label, 10.5), line.y - 10.5 * 0.95, 10.5, faces.regular, INK);
     links.push({ page: line.page, rect: [MARGIN.left, line.y - 14, MARGIN.left + width, line.y + 1], target: line.target });
   }
+  const annots = pageRefs.map((): PDFRef[] => []);
   for (const l of links) {
     const target = anchors.get(l.target);
     if (!target) continue;
@@ -429,26 +555,28 @@ export async function toPdf(input: PdfInput): Promise<Uint8Array> {
       Subtype: 'Link',
       Rect: [...l.rect],
       Border: [0, 0, 0],
-      Dest: [pages[target.page]!.ref, PDFName.of('XYZ'), null, target.y, null],
+      Dest: [pageRefs[target.page]!, PDFName.of('XYZ'), null, target.y, null],
     });
-    const ref = doc.context.register(annot);
-    const p = pages[l.page]!;
-    let annots = p.node.lookupMaybe(PDFName.of('Annots'), PDFArray);
-    if (!annots) {
-      annots = doc.context.obj([]);
-      p.node.set(PDFName.of('Annots'), annots);
-    }
-    annots.push(ref);
+    annots[l.page]!.push(doc.context.register(annot));
   }
-  const footer = clean(input.title);
+  const pages = doc.getPages();
   pages.forEach((p, i) => {
-    const n = `Page ${i + 1} of ${pages.length}`;
-    ink(p).text(n, MARGIN.left + width - widthOf(regular, n, 8), MARGIN.bottom - 26, 8, regular, MUTED);
-    const maxTitle = width - widthOf(regular, n, 8) - 20;
-    let t = footer;
-    while (t && widthOf(regular, t, 8) > maxTitle) t = t.slice(0, -2);
-    ink(p).text(t === footer ? t : `${t}…`, MARGIN.left, MARGIN.bottom - 26, 8, regular, MUTED);
+    const ink = extras[i]!;
+    if (footer !== null) {
+      const n = `Page ${i + 1} of ${pages.length}`;
+      ink.text(n, MARGIN.left + width - widthOf(faces.regular, n, 8), MARGIN.bottom - 26, 8, faces.regular, MUTED);
+      const maxTitle = width - widthOf(faces.regular, n, 8) - 20;
+      let t = footer;
+      while (t && widthOf(faces.regular, t, 8) > maxTitle) t = t.slice(0, -2);
+      ink.text(t === footer ? t : `${t}…`, MARGIN.left, MARGIN.bottom - 26, 8, faces.regular, MUTED);
+    }
+    const contents = ink.empty ? [bodies[i]!] : [bodies[i]!, doc.context.register(doc.context.flateStream(ink.content()))];
+    p.node.set(PDFName.of('Contents'), doc.context.obj(contents));
+    if (annots[i]!.length) p.node.set(PDFName.of('Annots'), doc.context.obj(annots[i]!));
   });
-  for (const p of pages) inks.get(p)?.flush();
-  return doc.save({ useObjectStreams: false });
+  // Glyphs shaping made, with their text; the first part that drew one names it.
+  const shaped = { F0: new Map<number, string>(), F1: new Map<number, string>() };
+  for (const [face, g, t] of [...parts.flatMap((p) => p.shaped), ...shapedOf(extras)]) if ((face === 'F0' || face === 'F1') && !shaped[face].has(g)) shaped[face].set(g, t);
+  embedWholeFont(doc, fonts.regular, faces.regular.font, shaped.F0, fontRefs.F0);
+  embedWholeFont(doc, fonts.semibold, faces.semibold.font, shaped.F1, fontRefs.F1);
 }

@@ -7,16 +7,16 @@
  * §8.5 paths, §9.4 text), not through pdf-lib's drawing calls: those build
  * an object per operator and number, parse the path data again and add a
  * font entry to the page per label, which made the PDF most of a
- * 1,000-characteristic build. pdf-lib still owns the document, the fonts
- * (its subset embedder encodes the text) and the page resources.
+ * 1,000-characteristic build. The operators go onto a sheet (pdf-ink.ts),
+ * which names its fonts and graphics states the same in every document.
  */
-import { type PDFFont, type PDFPage, rgb } from 'pdf-lib';
-import { PageInk, pdfNum as num } from './pdf-ink.ts';
+import { rgb } from 'pdf-lib';
+import { type Face, type SheetInk, pdfNum as num } from './pdf-ink.ts';
 import type { Paint, Scene } from './scene/types.ts';
 
-export interface PdfFonts {
-  readonly regular: PDFFont;
-  readonly semibold: PDFFont;
+export interface PdfFaces {
+  readonly regular: Face;
+  readonly semibold: Face;
 }
 
 /** A paint (`#rrggbb`) as pdf-lib's colour, 0–1 per channel. */
@@ -46,12 +46,11 @@ function pathOps(d: string, tx: (x: number) => number, ty: (y: number) => number
   return out.join('\n');
 }
 
-/** Draws `scene` with its top-left corner at (`x`, `top`) in page coordinates, scaled by `scale`, as one content stream. */
-export function drawScene(page: PDFPage, scene: Scene, at: { x: number; top: number; scale: number }, fonts: PdfFonts): void {
+/** Draws `scene` onto the sheet with its top-left corner at (`x`, `top`) in page coordinates, scaled by `scale`. */
+export function drawScene(ink: SheetInk, scene: Scene, at: { x: number; top: number; scale: number }, fonts: PdfFaces): void {
   const { x, top, scale } = at;
   const tx = (v: number) => x + v * scale;
   const ty = (v: number) => top - v * scale;
-  const ink = new PageInk(page);
   for (const p of scene.items) {
     switch (p.kind) {
       case 'rect':
@@ -79,5 +78,4 @@ export function drawScene(page: PDFPage, scene: Scene, at: { x: number; top: num
       }
     }
   }
-  ink.flush();
 }

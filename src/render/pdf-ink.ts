@@ -2,12 +2,19 @@
  * What a PDF page says, as PDF operators (ISO 32000-1: §8.5 paths, §9.4
  * text) collected in a buffer and written as one content stream: the cheap
  * way to put tens of thousands of lines of text on a few thousand pages.
- * pdf-lib's drawing calls build objects per operator and per number and add
- * a font entry to the page for every string drawn; pdf-lib still owns the
- * document, embeds the fonts and encodes the text (its subset embedder).
+ *
+ * The operators name their resources by fixed names (a face's key, an
+ * opacity's graphics state by its value) and write text as the font's own
+ * glyph numbers, so a page's stream does not depend on the document it goes
+ * into: pages can be laid out apart (and kept in the build cache) and
+ * joined later. The document embeds each font whole (pdf-lib's embedder
+ * without subsetting: Identity-H, CID = glyph number), which is what makes
+ * glyph numbers the font's own.
  */
-import type { PDFFont, PDFPage, RGB } from 'pdf-lib';
+import type { RGB } from 'pdf-lib';
 import { decimalText } from '../format.ts';
+import type { FontkitFont } from './fontkit.ts';
+import { cmapText } from './pdf-font.ts';
 
 /** A number for a content stream: at most three decimals, no exponent, no "-0". */
 export function pdfNum(v: number): string {
@@ -17,53 +24,117 @@ export function pdfNum(v: number): string {
 
 export const rgbOperands = (c: RGB) => `${pdfNum(c.red)} ${pdfNum(c.green)} ${pdfNum(c.blue)}`;
 
-/** Strings longer than this are encoded each time: sentences seldom repeat, and the cache would hold them all. */
-const ENCODE_CACHED_CHARS = 40;
-const encodings = new WeakMap<PDFFont, Map<string, string>>();
-
-/**
- * `font.encodeText(text)` as it appears in a content stream. pdf-lib shapes
- * the text again on every call (a fontkit layout, most of the PDF stage's
- * time on a plant); the same axis labels, dates and table words come back
- * thousands of times. The result depends only on the text and the glyphs
- * already in the font's subset, and a repeated call adds no glyph, so the
- * first call's result is every later call's.
- */
-export function encoded(font: PDFFont, text: string): string {
-  if (text.length > ENCODE_CACHED_CHARS) return font.encodeText(text).toString();
-  let known = encodings.get(font);
-  if (!known) encodings.set(font, (known = new Map()));
-  let hex = known.get(text);
-  if (hex === undefined) known.set(text, (hex = font.encodeText(text).toString()));
-  return hex;
+/** A font as pages use it: the resource name the document gives it, and the font. */
+export interface Face {
+  /** The name under /Font in every page's resources, e.g. "F0". */
+  readonly key: string;
+  readonly font: FontkitFont;
 }
 
-export class PageInk {
-  private readonly ops: string[] = [];
-  private readonly fontKeys = new Map<PDFFont, string>();
-  private readonly alphaKeys = new Map<number, string>();
+/**
+ * The font's layout of `text`; where the font lacks a precomposed letter
+ * (ḡ, U+1E21, in Plex Sans) and draws .notdef, the decomposed text instead
+ * (g and a combining macron), which the font has.
+ */
+export function shape(font: FontkitFont, text: string): { readonly run: ReturnType<FontkitFont['layout']>; readonly text: string } {
+  const run = font.layout(text);
+  if (!run.glyphs.some((g) => g.id === 0)) return { run, text };
+  const decomposed = text.normalize('NFD');
+  return decomposed === text ? { run, text } : { run: font.layout(decomposed), text: decomposed };
+}
 
-  constructor(private readonly page: PDFPage) {}
+/** Strings longer than this are encoded each time: sentences seldom repeat, and the cache would hold them all. */
+const ENCODE_CACHED_CHARS = 40;
 
-  /** The page's graphics-state resource for fill and stroke opacity `o`, made once per page and value. */
-  private alpha(o: number): string {
-    let k = this.alphaKeys.get(o);
-    if (!k) {
-      const ctx = this.page.doc.context;
-      this.alphaKeys.set(o, (k = this.page.node.newExtGState('GS', ctx.register(ctx.obj({ Type: 'ExtGState', ca: o, CA: o }))).toString()));
+/** A string's glyph numbers, and the text of those whose text the font's cmap does not give (see pdf-font.ts). */
+interface Encoded {
+  readonly hex: string;
+  readonly shaped: readonly (readonly [glyph: number, text: string])[];
+}
+const encodings = new WeakMap<FontkitFont, Map<string, Encoded>>();
+const NONE: Encoded['shaped'] = [];
+
+/**
+ * `text` as a hex string of the font's glyph numbers, four hex digits each
+ * (Identity-H), the glyphs of the font's layout of the text, as pdf-lib's
+ * whole-font embedder encodes it; with the glyphs that only shaping made
+ * and the text each stands for. The same axis labels, dates and table
+ * words come back thousands of times, so short strings are remembered.
+ */
+export function glyphHex(font: FontkitFont, text: string): Encoded {
+  let known = encodings.get(font);
+  if (!known) encodings.set(font, (known = new Map()));
+  let e = text.length <= ENCODE_CACHED_CHARS ? known.get(text) : undefined;
+  if (e === undefined) {
+    const laid = shape(font, text);
+    const glyphs = laid.run.glyphs;
+    const mapped = cmapText(font);
+    const parts = new Array<string>(glyphs.length);
+    let shaped: [number, string][] | undefined;
+    // The text each glyph stands for: its own character, or the run of characters a ligature joined
+    // (those whose layout alone is that one glyph). Not fontkit's glyph.codePoints: a glyph object is
+    // shared, and keeps the code points of the first text it was made from in the process.
+    const chars = [...laid.text];
+    let j = 0;
+    for (let i = 0; i < glyphs.length; i++) {
+      const g = glyphs[i]!;
+      parts[i] = g.id.toString(16).padStart(4, '0').toUpperCase();
+      let t = chars[j] ?? '';
+      let k = 1;
+      if (glyphs.length < chars.length && mapped.get(g.id) !== t) {
+        for (let n = 2; n <= 4 && j + n <= chars.length; n++) {
+          const joined = chars.slice(j, j + n).join('');
+          const alone = font.layout(joined).glyphs;
+          if (alone.length === 1 && alone[0]!.id === g.id) {
+            t = joined;
+            k = n;
+            break;
+          }
+        }
+      }
+      j += k;
+      // A glyph whose text is not what the cmap says (a ligature: "fi", not "ﬁ"; an alternate form)
+      // is noted with its text. Glyph 0 is .notdef, drawn for characters the font lacks: no text.
+      if (g.id !== 0 && t !== '' && mapped.get(g.id) !== t) (shaped ??= []).push([g.id, t]);
     }
-    return k;
+    e = { hex: `<${parts.join('')}>`, shaped: shaped ?? NONE };
+    if (text.length <= ENCODE_CACHED_CHARS) known.set(text, e);
   }
+  return e;
+}
 
-  private fontKey(f: PDFFont): string {
-    let k = this.fontKeys.get(f);
-    if (!k) this.fontKeys.set(f, (k = this.page.node.newFontDictionary(f.name, f.ref).toString()));
-    return k;
-  }
+/**
+ * The width of `text` at `size` points, as pdf-lib measures it (the sum of
+ * the layout's glyph advances, in thousandths of the size).
+ */
+export function textWidth(font: FontkitFont, text: string, size: number): number {
+  const glyphs = shape(font, text).run.glyphs;
+  const scale = 1000 / font.unitsPerEm;
+  let total = 0;
+  for (let i = 0; i < glyphs.length; i++) total += glyphs[i]!.advanceWidth * scale;
+  return total * (size / 1000);
+}
+
+/** The graphics-state resource name of fill and stroke opacity `o` (its value, so every page names it alike). */
+export const opacityKey = (o: number) => `A${decimalText(o, 4).replace('.', '_').replace('-', 'm')}`;
+
+/** A page's drawing, before it is in a document. */
+export class SheetInk {
+  private readonly ops: string[] = [];
+  /** Opacities used, for the document's graphics-state resources. */
+  readonly opacities = new Set<number>();
+  /** Glyphs drawn that the font's cmap does not reach, by face key: glyph number → text (for the ToUnicode map). */
+  readonly shaped = new Map<string, Map<number, string>>();
 
   /** One line of text with its baseline starting at (x, y). */
-  text(text: string, x: number, y: number, size: number, font: PDFFont, color: RGB): void {
-    this.ops.push(`${rgbOperands(color)} rg BT ${this.fontKey(font)} ${pdfNum(size)} Tf 1 0 0 1 ${pdfNum(x)} ${pdfNum(y)} Tm ${encoded(font, text)} Tj ET`);
+  text(text: string, x: number, y: number, size: number, face: Face, color: RGB): void {
+    const e = glyphHex(face.font, text);
+    if (e.shaped.length) {
+      let m = this.shaped.get(face.key);
+      if (!m) this.shaped.set(face.key, (m = new Map()));
+      for (const [g, t] of e.shaped) if (!m.has(g)) m.set(g, t);
+    }
+    this.ops.push(`${rgbOperands(color)} rg BT /${face.key} ${pdfNum(size)} Tf 1 0 0 1 ${pdfNum(x)} ${pdfNum(y)} Tm ${e.hex} Tj ET`);
   }
 
   /** A filled rectangle; (x, y) is its lower-left corner. */
@@ -82,7 +153,10 @@ export class PageInk {
    */
   path(construct: string, paint: 'f' | 'S' | 'B', style: { fill?: RGB; stroke?: RGB; width?: number; dash?: readonly number[]; opacity?: number }): void {
     const ops = ['q'];
-    if (style.opacity !== undefined) ops.push(`${this.alpha(style.opacity)} gs`);
+    if (style.opacity !== undefined) {
+      this.opacities.add(style.opacity);
+      ops.push(`/${opacityKey(style.opacity)} gs`);
+    }
     if (style.fill) ops.push(`${rgbOperands(style.fill)} rg`);
     if (style.stroke) ops.push(`${rgbOperands(style.stroke)} RG`, `${pdfNum(style.width ?? 1)} w`);
     if (style.dash) ops.push(`[${style.dash.map(pdfNum).join(' ')}] 0 d`);
@@ -90,11 +164,12 @@ export class PageInk {
     this.ops.push(ops.join('\n'));
   }
 
-  /** Writes what was drawn as one content stream of the page (nothing if nothing was). */
-  flush(): void {
-    if (this.ops.length === 0) return;
-    const ctx = this.page.doc.context;
-    this.page.node.addContentStream(ctx.register(ctx.flateStream(`q\n${this.ops.join('\n')}\nQ\n`)));
-    this.ops.length = 0;
+  get empty(): boolean {
+    return this.ops.length === 0;
+  }
+
+  /** What was drawn, as one content stream's text in its own graphics state ('' if nothing was). */
+  content(): string {
+    return this.ops.length === 0 ? '' : `q\n${this.ops.join('\n')}\nQ\n`;
   }
 }

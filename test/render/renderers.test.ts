@@ -11,9 +11,10 @@ import { inflateSync } from 'node:zlib';
 import { toHtml as hastToHtml } from 'hast-util-to-html';
 import { PDFDocument } from 'pdf-lib';
 import { afterAll, describe, expect, it } from 'vitest';
-import { fontkit } from '../../src/render/fontkit.ts';
-import { drawScene } from '../../src/render/pdf-chart.ts';
-import { encoded } from '../../src/render/pdf-ink.ts';
+import { fontkit, shapingFontkit } from '../../src/render/fontkit.ts';
+import { scenePdf } from '../../src/pack/pdf.ts';
+import { pdfFontProgram } from '../../src/render/pdf-font.ts';
+import { glyphHex } from '../../src/render/pdf-ink.ts';
 import { seeded } from '../../src/stats/random.ts';
 import { svgToPng } from '../../src/render/png.ts';
 import type { Scene } from '../../src/render/scene/types.ts';
@@ -200,15 +201,9 @@ describe('PNG (resvg)', () => {
   });
 });
 
-describe('PDF drawing (pdf-lib)', () => {
+describe('PDF drawing', () => {
   it('draws the labels as real text that a PDF reader extracts, and the geometry as vector paths', async () => {
-    const doc = await PDFDocument.create({ updateMetadata: false });
-    doc.registerFontkit(fontkit);
-    const regular = await doc.embedFont(fonts.regular, { subset: true });
-    const semibold = await doc.embedFont(fonts.semibold, { subset: true });
-    const page = doc.addPage([scene.width + 40, scene.height + 40]);
-    drawScene(page, scene, { x: 20, top: scene.height + 20, scale: 1 }, { regular, semibold });
-    const bytes = await doc.save({ useObjectStreams: false });
+    const bytes = await scenePdf(scene, fonts);
     const file = path.join(temp, 'chart.pdf');
     writeFileSync(file, bytes);
     const extracted = execFileSync('pdftotext', ['-layout', file, '-'], { encoding: 'utf8' });
@@ -218,29 +213,78 @@ describe('PDF drawing (pdf-lib)', () => {
     const ops = streams(bytes).join('\n');
     expect((ops.match(/ (l|re)\n/g) ?? []).length).toBeGreaterThan(100);
     expect((ops.match(/ c\n/g) ?? []).length).toBeGreaterThan(100);
+    expect(execFileSync('qpdf', ['--check', file], { encoding: 'utf8' })).toMatch(/No syntax or stream encoding errors/);
   });
 });
 
-describe('PDF text encoding, remembered per font', () => {
-  // pdf-lib numbers a subset's glyphs in the order they first appear, so a remembered encoding is
-  // only right if it is what encoding afresh at that point would give. Compared with a second
-  // document that encodes every string afresh (pdf-lib's own encodeText), over seeded sequences
-  // of repeating and new strings, long ones (not remembered) among them.
-  it('gives what pdf-lib gives for every string, in any order of first use', async () => {
-    const embed = async () => {
-      const doc = await PDFDocument.create();
-      doc.registerFontkit(fontkit);
-      return doc.embedFont(fonts.regular, { subset: true });
-    };
+describe('PDF text as the font’s own glyph numbers', () => {
+  it('reads back as the text it was shaped from: a ligature as its letters, a letter the font lacks from its decomposed form', async () => {
+    // Plex Sans shapes "fi" as its ligature glyph, which its cmap maps to U+FB01; and it has no
+    // precomposed ḡ (U+1E21), only g and the combining macron. First in this file: fontkit keeps the
+    // code points a ligature glyph was first made from in a process (pdf-lib's embedders read the
+    // same), and the next test lays out U+FB01 itself.
+    const fk = fontkit.create(fonts.regular);
+    expect(fk.layout('fi').glyphs).toHaveLength(1);
+    expect(fk.layout('\u1e21').glyphs[0]!.id).toBe(0);
+
+    const bytes = await scenePdf({ ...scene, items: [...scene.items.filter((p) => p.kind !== 'text'), { kind: 'text', x: 10, y: 20, text: 'fine \u1e21 = 13.35', size: 12, weight: 400, anchor: 'start', fill: '#000000', width: 80 }] } as Scene, fonts);
+    const file = path.join(temp, 'shaped.pdf');
+    writeFileSync(file, bytes);
+    expect(execFileSync('pdftotext', [file, '-'], { encoding: 'utf8' }).normalize('NFC')).toContain('fine \u1e21 = 13.35');
+    // No .notdef (glyph 0) is drawn: no four-digit group of a shown string is 0000.
+    const shown = streams(bytes).flatMap((st) => [...st.matchAll(/<([0-9A-F]*)> Tj/g)].map((m) => m[1]!));
+    expect(shown.length).toBeGreaterThan(0);
+    expect(shown.flatMap((h) => h.match(/.{4}/g) ?? [])).not.toContain('0000');
+  });
+  // The reference is pdf-lib's embedder of a whole font (no subset), whose encodeText writes the
+  // glyphs of fontkit's layout as four hex digits each (Identity-H). Seeded sequences of repeating
+  // and new strings, long ones (not remembered) among them, in both weights.
+  it('gives what pdf-lib’s whole-font embedder gives for every string, in any order', async () => {
+    const doc = await PDFDocument.create();
+    doc.registerFontkit(fontkit);
+    const reference = { regular: await doc.embedFont(fonts.regular, { subset: false }), semibold: await doc.embedFont(fonts.semibold, { subset: false }) };
     const next = seeded(11);
-    const words = ['UCL', 'LCL', '2026-11', '12.5', 'keep', 'freeze', 'ﬁne', 'Ω', 'x̄', 'Δ ±', 'a'.repeat(41), 'Moving range chart of the fill volume, line 1 (mL)'];
-    for (let run = 0; run < 5; run++) {
-      const [remembered, afresh] = [await embed(), await embed()];
-      for (let k = 0; k < 300; k++) {
-        const w = `${words[Math.floor(next() * words.length)]}${next() < 0.3 ? ` ${Math.floor(next() * 50)}` : ''}`;
-        expect(encoded(remembered, w), w).toBe(afresh.encodeText(w).toString());
-      }
+    const words = ['UCL', 'LCL', '2026-11', '12.5', 'keep', 'freeze', 'ﬁne', 'fine', 'Ω', 'x̄', 'Δ ±', 'a'.repeat(41), 'Moving range chart of the fill volume, line 1 (mL)'];
+    for (let k = 0; k < 1000; k++) {
+      const w = `${words[Math.floor(next() * words.length)]}${next() < 0.3 ? ` ${Math.floor(next() * 50)}` : ''}`;
+      const weight = next() < 0.5 ? 'regular' : 'semibold';
+      expect(glyphHex(fontkit.create(fonts[weight]), w).hex, w).toBe(reference[weight].encodeText(w).toString());
     }
+  });
+});
+
+describe('the font program embedded in pack.pdf', () => {
+  // Checked by an independent reader (fontkit, parsing the file afresh) and against the OpenType
+  // specification's table directory rules: each table's checksum is the sum of its big-endian
+  // uint32s, and the whole file sums to 0xB1B0AFBA once head.checkSumAdjustment is set.
+  it('keeps the glyphs, widths and metrics a reader draws with, drops the shaping tables, and has valid checksums', () => {
+    const program = pdfFontProgram(fonts.regular);
+    expect(program.length).toBeLessThan(fonts.regular.length / 2);
+    const original = shapingFontkit.create(Buffer.from(fonts.regular));
+    const kept = shapingFontkit.create(Buffer.from(program));
+    expect(kept.numGlyphs).toBe(original.numGlyphs);
+    for (const id of [0, 3, 10, 194, 500, original.numGlyphs - 1]) {
+      expect(kept.getGlyph(id).path.toSVG()).toBe(original.getGlyph(id).path.toSVG());
+      expect(kept.getGlyph(id).advanceWidth).toBe(original.getGlyph(id).advanceWidth);
+    }
+    const view = new DataView(program.buffer, program.byteOffset, program.byteLength);
+    const sum = (from: number, length: number) => {
+      let s = 0;
+      for (let i = from; i < from + length; i += 4) s = (s + (i + 4 <= program.length ? view.getUint32(i) : 0)) >>> 0;
+      return s;
+    };
+    const tags: string[] = [];
+    for (let i = 0; i < view.getUint16(4); i++) {
+      const at = 12 + 16 * i;
+      const tag = String.fromCharCode(...program.subarray(at, at + 4));
+      tags.push(tag);
+      const [offset, length] = [view.getUint32(at + 8), view.getUint32(at + 12)];
+      // head's own checksum is taken with checkSumAdjustment as zero.
+      const adjust = tag === 'head' ? view.getUint32(offset + 8) : 0;
+      expect((sum(offset, (length + 3) & ~3) - adjust) >>> 0, tag).toBe(view.getUint32(at + 4));
+    }
+    expect(tags).toEqual(['OS/2', 'cvt ', 'fpgm', 'glyf', 'head', 'hhea', 'hmtx', 'loca', 'maxp', 'name', 'prep']);
+    expect(sum(0, program.length)).toBe(0xb1b0afba);
   });
 });
 

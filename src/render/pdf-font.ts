@@ -1,0 +1,163 @@
+/**
+ * A TrueType font embedded whole-numbered: the text of every page is the
+ * font's own glyph numbers (Identity-H, CID = glyph number; ISO 32000-1
+ * §9.7.4), so pages laid out apart, or kept from an earlier build, join any
+ * document. The font program keeps only the tables a PDF reader uses for a
+ * CIDFontType2 (§9.9: head, hhea, loca, maxp, cvt, prep, glyf, hmtx, fpgm;
+ * and OS/2 and name, which are small): shaping tables (GPOS alone is 115 KB
+ * of Plex Sans's 218 KB) were for layout, which is done. Widths cover every
+ * glyph; the ToUnicode map (§9.10.3) gives each glyph its text, from the
+ * font's cmap and, for glyphs that shaping made (a ligature, a form chosen
+ * before a combining mark), from the text they were shaped from.
+ */
+import { deflateSync } from 'node:zlib';
+import { type PDFDocument, PDFNumber, type PDFRef, PDFString } from 'pdf-lib';
+import type { FontkitFont } from './fontkit.ts';
+
+const KEEP = new Set(['head', 'hhea', 'loca', 'maxp', 'cvt ', 'prep', 'glyf', 'hmtx', 'fpgm', 'OS/2', 'name']);
+
+const sum32 = (b: Uint8Array) => {
+  let s = 0;
+  const v = new DataView(b.buffer, b.byteOffset, b.byteLength);
+  for (let i = 0; i + 3 < b.length; i += 4) s = (s + v.getUint32(i)) >>> 0;
+  return s;
+};
+
+/** The font file with only the tables in KEEP, checksums written afresh (the OpenType table directory). */
+export function pdfFontProgram(font: Uint8Array): Uint8Array {
+  const view = new DataView(font.buffer, font.byteOffset, font.byteLength);
+  const count = view.getUint16(4);
+  const tables: { tag: string; data: Uint8Array }[] = [];
+  for (let i = 0; i < count; i++) {
+    const at = 12 + 16 * i;
+    const tag = String.fromCharCode(font[at]!, font[at + 1]!, font[at + 2]!, font[at + 3]!);
+    const offset = view.getUint32(at + 8);
+    const length = view.getUint32(at + 12);
+    if (KEEP.has(tag)) tables.push({ tag, data: font.slice(offset, offset + length) });
+  }
+  tables.sort((a, b) => (a.tag < b.tag ? -1 : 1));
+  const n = tables.length;
+  const pow = 2 ** Math.floor(Math.log2(n));
+  let size = 12 + 16 * n;
+  for (const t of tables) size += (t.data.length + 3) & ~3;
+  const out = new Uint8Array(size);
+  const w = new DataView(out.buffer);
+  w.setUint32(0, view.getUint32(0));
+  w.setUint16(4, n);
+  w.setUint16(6, pow * 16);
+  w.setUint16(8, Math.log2(pow));
+  w.setUint16(10, n * 16 - pow * 16);
+  let offset = 12 + 16 * n;
+  let headAt = -1;
+  tables.forEach((t, i) => {
+    if (t.tag === 'head') {
+      headAt = offset;
+      // checkSumAdjustment is summed as zero, and set once the whole file is known.
+      t.data.fill(0, 8, 12);
+    }
+    const padded = new Uint8Array((t.data.length + 3) & ~3);
+    padded.set(t.data);
+    const at = 12 + 16 * i;
+    for (let k = 0; k < 4; k++) out[at + k] = t.tag.charCodeAt(k);
+    w.setUint32(at + 4, sum32(padded));
+    w.setUint32(at + 8, offset);
+    w.setUint32(at + 12, t.data.length);
+    out.set(padded, offset);
+    offset += padded.length;
+  });
+  if (headAt >= 0) w.setUint32(headAt + 8, (0xb1b0afba - sum32(out)) >>> 0);
+  return out;
+}
+
+const hex4 = (n: number) => n.toString(16).padStart(4, '0').toUpperCase();
+const utf16Hex = (text: string) => {
+  let s = '';
+  for (let i = 0; i < text.length; i++) s += hex4(text.charCodeAt(i));
+  return s;
+};
+
+/** Each glyph the font's cmap reaches, with the lowest code point that reaches it. */
+const mappedText = new WeakMap<FontkitFont, Map<number, string>>();
+export function cmapText(font: FontkitFont): ReadonlyMap<number, string> {
+  let m = mappedText.get(font);
+  if (!m) {
+    m = new Map();
+    for (const cp of [...font.characterSet].sort((a, b) => a - b)) {
+      const id = font.glyphForCodePoint(cp).id;
+      // Glyph 0 is .notdef: the cmap sends code points the font lacks there (U+FFFF among them).
+      if (id !== 0 && !m.has(id)) m.set(id, String.fromCodePoint(cp));
+    }
+    mappedText.set(font, m);
+  }
+  return m;
+}
+
+/**
+ * Embeds `bytes` (the file `font` was read from) into `doc` as the Type0
+ * font object `ref`; `shaped` gives the text of glyphs shaping made.
+ */
+export function embedWholeFont(doc: PDFDocument, bytes: Uint8Array, font: FontkitFont, shaped: ReadonlyMap<number, string>, ref = doc.context.nextRef()): PDFRef {
+  const ctx = doc.context;
+  const scale = 1000 / font.unitsPerEm;
+  const name = font.postscriptName || 'Font';
+  const program = pdfFontProgram(bytes);
+  const file = ctx.register(ctx.stream(deflateSync(program), { Filter: 'FlateDecode', Length1: program.length }));
+  const { minX, minY, maxX, maxY } = font.bbox;
+  const descriptor = ctx.register(
+    ctx.obj({
+      Type: 'FontDescriptor',
+      FontName: name,
+      // Nonsymbolic (bit 6): the glyphs are Latin text (§9.8.2).
+      Flags: 32,
+      FontBBox: [minX * scale, minY * scale, maxX * scale, maxY * scale],
+      ItalicAngle: font.italicAngle,
+      Ascent: font.ascent * scale,
+      Descent: font.descent * scale,
+      CapHeight: (font.capHeight || font.ascent) * scale,
+      XHeight: (font.xHeight || 0) * scale,
+      StemV: 0,
+      FontFile2: file,
+    }),
+  );
+  const widths = Array.from({ length: font.numGlyphs }, (_, id) => PDFNumber.of(Math.round(font.getGlyph(id).advanceWidth * scale * 1000) / 1000));
+  const cid = ctx.register(
+    ctx.obj({
+      Type: 'Font',
+      Subtype: 'CIDFontType2',
+      BaseFont: name,
+      CIDSystemInfo: { Registry: PDFString.of('Adobe'), Ordering: PDFString.of('Identity'), Supplement: 0 },
+      FontDescriptor: descriptor,
+      W: [0, widths],
+      CIDToGIDMap: 'Identity',
+    }),
+  );
+  const text = new Map(cmapText(font));
+  // What a glyph was shaped from wins over the cmap's code point: "fi" is searchable, "ﬁ" is not.
+  for (const [id, t] of shaped) text.set(id, t);
+  const entries = [...text].sort(([a], [b]) => a - b);
+  const blocks: string[] = [];
+  // At most 100 mappings to a beginbfchar block (Adobe technical note 5411).
+  for (let i = 0; i < entries.length; i += 100) {
+    const chunk = entries.slice(i, i + 100);
+    blocks.push(`${chunk.length} beginbfchar\n${chunk.map(([id, t]) => `<${hex4(id)}> <${utf16Hex(t)}>`).join('\n')}\nendbfchar`);
+  }
+  const cmap = [
+    '/CIDInit /ProcSet findresource begin',
+    '12 dict begin',
+    'begincmap',
+    '/CIDSystemInfo << /Registry (Adobe) /Ordering (UCS) /Supplement 0 >> def',
+    '/CMapName /Adobe-Identity-UCS def',
+    '/CMapType 2 def',
+    '1 begincodespacerange',
+    '<0000> <FFFF>',
+    'endcodespacerange',
+    ...blocks,
+    'endcmap',
+    'CMapName currentdict /CMap defineresource pop',
+    'end',
+    'end',
+  ].join('\n');
+  const toUnicode = ctx.register(ctx.flateStream(cmap));
+  ctx.assign(ref, ctx.obj({ Type: 'Font', Subtype: 'Type0', BaseFont: name, Encoding: 'Identity-H', DescendantFonts: [cid], ToUnicode: toUnicode }));
+  return ref;
+}
