@@ -12,7 +12,7 @@ import type { IsoDate } from './model.ts';
 import { buildPackTree } from './pack/content.ts';
 import { jsonBytes, jsonChunks } from './pack/json-bytes.ts';
 import type { FileSink } from './pack/write.ts';
-import { type PagesWorker, startPagesWorker, writeTextPagesHere } from './pack/text-pages.ts';
+import { type PagesWorker, type PartText, startPagesWorker, writeTextPagesHere } from './pack/text-pages.ts';
 import { type LaidOutPart, type Paper, toPdf } from './pack/pdf.ts';
 import { loadFonts } from './render/fonts.ts';
 import { svgToPng } from './render/png.ts';
@@ -21,7 +21,8 @@ import { chartSpec } from './render/scene/spec.ts';
 import { createTextMetrics } from './render/scene/text-metrics.ts';
 import type { Scene } from './render/scene/types.ts';
 import { type ChartJob, defaultJobs, drawCharts } from './render/pool/chart-pool.ts';
-import { type CacheEntry, cacheKey, encodeEntry, entryPath, partKey, partPath } from './pack/build-cache.ts';
+import { type CacheEntry, cacheKey, encodeEntry, entryPath, partKey, partPath, textPath } from './pack/build-cache.ts';
+import { splitParts } from './pack/parts.ts';
 import { RECORD_FILE, type SummaryLike, compareSummaries, comparisonRecord } from './review/since.ts';
 import { TOOL } from './version.ts';
 import type { Workspace } from './workspace/load.ts';
@@ -75,6 +76,8 @@ export interface PackOptions {
   readonly cache?: (key: string) => { readonly entry: CacheEntry; readonly bytes: () => Uint8Array } | undefined;
   /** Laid-out parts of an earlier build's pack.pdf, by part key (read only when `cache` is given). */
   readonly partCache?: (key: string) => { readonly part: LaidOutPart; readonly bytes: () => Uint8Array } | undefined;
+  /** The parts' index.md and index.html texts of an earlier build, by part key (read only when `cache` is given). */
+  readonly textCache?: (key: string) => { readonly text: PartText; readonly bytes: () => Uint8Array } | undefined;
 }
 
 export const DEFAULT_OPTIONS: PackOptions = { paper: 'a4', png: false };
@@ -200,15 +203,34 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   });
   lap('tree');
   const packDiagnostics = [...diagnostics, ...pack.diagnostics];
+  // The tree's parts (each level-2 section) are kept in the cache, pages, Markdown and HTML, by a key
+  // over their nodes and the keys of their charts' characteristics (whose scenes they draw).
+  const parts = splitParts(pack.tree);
+  const keyOfChart = new Map(options.cache ? ws.characteristics.map((c, i) => [c.characteristic.id, keys[i]!] as const) : []);
+  const partKeys = options.cache
+    ? parts.map((nodes) => {
+        const charts: string[] = [];
+        for (const n of nodes) {
+          if (n.type !== 'paragraph' || n.children.length !== 1 || n.children[0]!.type !== 'image') continue;
+          const id = n.children[0]!.data?.chartId;
+          if (id !== undefined) charts.push(keyOfChart.get(id) ?? `unknown ${id}`);
+        }
+        return partKey(nodes, charts, options.paper);
+      })
+    : [];
+  const kept = new Map<string, () => Uint8Array>();
+  const knownText = options.cache
+    ? partKeys.map((key) => {
+        const hit = options.textCache?.(key);
+        if (hit) kept.set(textPath(key), hit.bytes);
+        return hit?.text;
+      })
+    : undefined;
   // Markdown and HTML on the other thread, while this one lays out the PDF.
-  const pagesInput = { tree: pack.tree, title: ws.config.title, scenes, ...(svgsOnPagesWorker ? { charts: jobs } : {}) };
+  const pagesInput = { tree: pack.tree, title: ws.config.title, scenes, ...(svgsOnPagesWorker ? { charts: jobs } : {}), ...(knownText ? { known: knownText } : {}) };
   const textPages = pagesWorker ? pagesWorker.run(pagesInput) : writeTextPagesHere(pagesInput);
   lap(pagesWorker ? 'markdown and html sent' : 'markdown and html');
   options.progress?.('pages', 1, 2);
-  // pack.pdf's parts are kept in the cache by a key over their nodes and their charts' characteristics.
-  const keyOfChart = new Map(options.cache ? ws.characteristics.map((c, i) => [c.characteristic.id, keys[i]!] as const) : []);
-  const partKeys: (string | undefined)[] = [];
-  const partsKept = new Map<string, () => Uint8Array>();
   const pdf = await toPdf({
     tree: pack.tree,
     title: ws.config.title,
@@ -219,23 +241,16 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     scenes,
     fonts,
     producer: `${TOOL.name} ${TOOL.version}`,
-    reuse: (i, nodes) => {
-      if (!options.cache) return undefined;
-      const charts: string[] = [];
-      for (const n of nodes) {
-        if (n.type !== 'paragraph' || n.children.length !== 1 || n.children[0]!.type !== 'image') continue;
-        const id = n.children[0]!.data?.chartId;
-        if (id !== undefined) charts.push(keyOfChart.get(id) ?? `unknown ${id}`);
-      }
-      const key = (partKeys[i] = partKey(nodes, charts, options.paper));
-      const hit = options.partCache?.(key);
-      if (hit) partsKept.set(key, hit.bytes);
+    reuse: (i) => {
+      const key = partKeys[i];
+      const hit = key === undefined ? undefined : options.partCache?.(key);
+      if (hit && key !== undefined) kept.set(partPath(key), hit.bytes);
       return hit?.part;
     },
   });
   files.set('pack.pdf', pdf.bytes);
   lap('pdf');
-  const { md, html, charts: drawnWithPages } = await textPages;
+  const { md, html, charts: drawnWithPages, fresh } = await textPages;
   files.set('index.md', md);
   files.set('index.html', html);
   if (pagesWorker) lap(svgsOnPagesWorker ? 'markdown, html and svgs (waiting for the worker)' : 'markdown and html (waiting for the worker)');
@@ -270,12 +285,21 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
       cache.set(entryPath(keys[i]!), kept ? hit.bytes : () => encodeEntry({ assessment: a, scene, svg: d?.svg ?? null, png: d?.png ?? null }));
       if (kept) cacheKept.add(entryPath(keys[i]!));
     });
-    pdf.parts.forEach((part, i) => {
-      const key = partKeys[i];
-      if (key === undefined) return;
-      const kept = partsKept.get(key);
-      cache.set(partPath(key), kept ?? (() => new Uint8Array(serialize(part))));
-      if (kept) cacheKept.add(partPath(key));
+    // Parts read unchanged are linked; new ones are written. A part's texts are left out when it has
+    // none (a tree with footnotes makes index.html whole).
+    const texts = new Map(fresh);
+    partKeys.forEach((key, i) => {
+      const part = pdf.parts[i]!;
+      for (const [file, value] of [
+        [partPath(key), part],
+        [textPath(key), texts.get(i)],
+      ] as const) {
+        const old = kept.get(file);
+        if (old) {
+          cache.set(file, old);
+          cacheKept.add(file);
+        } else if (value !== undefined) cache.set(file, () => new Uint8Array(serialize(value)));
+      }
     });
   }
   lap('manifest and cache');

@@ -16,8 +16,9 @@ afterAll(() => rmSync(temp, { recursive: true, force: true }));
 
 const CACHE = '.plumbline-cache';
 const packOnly = (dir: string) => Object.fromEntries(Object.entries(hashTree(dir)).filter(([f]) => !f.startsWith(CACHE)));
-/** Characteristics' entries; pack.pdf's laid-out parts are the `pdf-` ones. */
-const cacheKeys = (dir: string) => readdirSync(path.join(dir, CACHE)).filter((f) => !f.startsWith('pdf-')).sort();
+/** Characteristics' entries; the pack's parts are the `pdf-` (laid-out pages) and `text-` (Markdown and HTML) ones. */
+const cacheKeys = (dir: string) => readdirSync(path.join(dir, CACHE)).filter((f) => !f.startsWith('pdf-') && !f.startsWith('text-')).sort();
+const textKeys = (dir: string) => readdirSync(path.join(dir, CACHE)).filter((f) => f.startsWith('text-')).sort();
 const partKeys = (dir: string) => readdirSync(path.join(dir, CACHE)).filter((f) => f.startsWith('pdf-')).sort();
 const json = (r: { out: string }) => JSON.parse(r.out) as { exitCode: number; cache: { reused: number; redone: number } | null };
 
@@ -49,6 +50,9 @@ describe('the build cache', () => {
     // pack.pdf's parts: the cover, contents, decisions, overview, a section per characteristic, cautions and method.
     const partsBefore = partKeys(out);
     expect(partsBefore.length).toBeGreaterThanOrEqual(19 + 4);
+    // Each part's index.md and index.html texts too, under the same key.
+    const textsBefore = textKeys(out);
+    expect(textsBefore.map((k) => k.slice('text-'.length))).toEqual(partsBefore.map((k) => k.slice('pdf-'.length)));
     const partInodes = new Map(partsBefore.map((k) => [k, statSync(entryFile(k)).ino]));
     const bytesBefore = hashTree(path.join(out, CACHE));
     const warm = json(cli('build', ws, '--out', out, '--previous', before, '--json'));
@@ -72,6 +76,7 @@ describe('the build cache', () => {
     expect(laidOut.length).toBeGreaterThanOrEqual(2);
     expect(laidOut.length).toBeLessThanOrEqual(4);
     expect(partsAfter).toHaveLength(partsBefore.length);
+    expect(textKeys(out).map((k) => k.slice('text-'.length))).toEqual(partsAfter.map((k) => k.slice('pdf-'.length)));
     for (const k of partsAfter.filter((k) => partsBefore.includes(k))) expect(statSync(entryFile(k)).ino).toBe(partInodes.get(k));
 
     const cold = path.join(temp, 'cold');
@@ -146,8 +151,8 @@ describe('what the cache keeps', () => {
     const plan = await planPack(ws, ws.config.period.to, { paper: 'a4', png: false, jobs: 1, cache: () => undefined, maxCachedPoints: 40 });
     const counts = plan.assessments.map((a) => (a.status === 'assessed' ? a.samples.length : 0));
     // Counted from the assessments themselves: one entry per characteristic of at most 40 points
-    // (pack.pdf's laid-out parts, `pdf-` entries, are kept whatever their charts' size).
-    const entries = [...plan.cache.keys()].filter((k) => !path.basename(k).startsWith('pdf-'));
+    // (the pack's parts, `pdf-` and `text-` entries, are kept whatever their charts' size).
+    const entries = [...plan.cache.keys()].filter((k) => !/^(pdf|text)-/.test(path.basename(k)));
     expect(entries.length).toBe(counts.filter((n) => n <= 40).length);
     expect(entries.length).toBeGreaterThan(0);
     expect(entries.length).toBeLessThan(19);

@@ -20,6 +20,7 @@ import type { Assessment } from '../analyse.ts';
 import type { IsoDate } from '../model.ts';
 import type { Scene } from '../render/scene/types.ts';
 import type { LaidOutPart, Paper } from './pdf.ts';
+import type { PartText } from './text-pages.ts';
 import { TOOL } from '../version.ts';
 import type { CharacteristicInput, Workspace } from '../workspace/load.ts';
 
@@ -57,30 +58,42 @@ export const entryPath = (key: string) => `${CACHE_DIR}/${key}.v8`;
 export const encodeEntry = (e: CacheEntry): Uint8Array => new Uint8Array(serialize(e));
 
 /**
- * The entries an earlier build left in `packDir`, read on demand. An entry's
- * bytes are read again if they are asked for (a rebuild links the file
- * instead, and only falls back to writing it where links cannot be made):
- * a plant's entries are 200 MB that a rebuild held to the end.
+ * What an earlier build left in `packDir` under `pathOf(key)`, read on
+ * demand and kept only if `valid` accepts it. Its bytes are read again if
+ * they are asked for (a rebuild links the file instead, and only falls back
+ * to writing it where links cannot be made): a plant's entries are 200 MB
+ * that a rebuild held to the end.
  */
-export function openCache(packDir: string): (key: string) => { entry: CacheEntry; bytes: () => Uint8Array } | undefined {
+function openStored<T>(packDir: string, pathOf: (key: string) => string, valid: (v: unknown) => v is T): (key: string) => { value: T; bytes: () => Uint8Array } | undefined {
   return (key) => {
-    const file = path.join(packDir, entryPath(key));
-    let entry: CacheEntry;
+    const file = path.join(packDir, pathOf(key));
+    let value: unknown;
     try {
-      entry = deserialize(readFileSync(file)) as CacheEntry;
+      value = deserialize(readFileSync(file));
     } catch {
       return undefined;
     }
-    if (typeof entry !== 'object' || entry === null || typeof entry.assessment !== 'object') return undefined;
+    if (!valid(value)) return undefined;
     const bytes = () => {
       try {
         return new Uint8Array(readFileSync(file));
       } catch {
-        // Gone since it was read: the same entry, encoded again.
-        return encodeEntry(entry);
+        // Gone since it was read: the same value, encoded again.
+        return new Uint8Array(serialize(value));
       }
     };
-    return { entry, bytes };
+    return { value, bytes };
+  };
+}
+
+const isEntry = (e: unknown): e is CacheEntry => typeof e === 'object' && e !== null && typeof (e as CacheEntry).assessment === 'object';
+
+/** The characteristics' entries an earlier build left in `packDir`. */
+export function openCache(packDir: string): (key: string) => { entry: CacheEntry; bytes: () => Uint8Array } | undefined {
+  const read = openStored(packDir, entryPath, isEntry);
+  return (key) => {
+    const hit = read(key);
+    return hit && { entry: hit.value, bytes: hit.bytes };
   };
 }
 
@@ -99,24 +112,25 @@ const isPart = (p: unknown): p is LaidOutPart =>
   typeof p === 'object' && p !== null && Array.isArray((p as LaidOutPart).sheets) && (p as LaidOutPart).sheets.every((s) => s instanceof Uint8Array) &&
   Array.isArray((p as LaidOutPart).anchors) && Array.isArray((p as LaidOutPart).links) && Array.isArray((p as LaidOutPart).contentsLines) && Array.isArray((p as LaidOutPart).opacities) && Array.isArray((p as LaidOutPart).shaped);
 
-/** The laid-out PDF parts an earlier build left in `packDir`, read on demand (as openCache). */
+/** The laid-out PDF parts an earlier build left in `packDir`. */
 export function openPartCache(packDir: string): (key: string) => { part: LaidOutPart; bytes: () => Uint8Array } | undefined {
+  const read = openStored(packDir, partPath, isPart);
   return (key) => {
-    const file = path.join(packDir, partPath(key));
-    let part: unknown;
-    try {
-      part = deserialize(readFileSync(file));
-    } catch {
-      return undefined;
-    }
-    if (!isPart(part)) return undefined;
-    const bytes = () => {
-      try {
-        return new Uint8Array(readFileSync(file));
-      } catch {
-        return new Uint8Array(serialize(part));
-      }
-    };
-    return { part, bytes };
+    const hit = read(key);
+    return hit && { part: hit.value, bytes: hit.bytes };
+  };
+}
+
+/** A part's index.md text and index.html body, under the same key as its PDF pages. */
+export const textPath = (key: string) => `${CACHE_DIR}/text-${key}.v8`;
+
+const isText = (t: unknown): t is PartText => typeof t === 'object' && t !== null && typeof (t as PartText).md === 'string' && typeof (t as PartText).html === 'string';
+
+/** The parts' Markdown and HTML an earlier build left in `packDir`. */
+export function openTextCache(packDir: string): (key: string) => { text: PartText; bytes: () => Uint8Array } | undefined {
+  const read = openStored(packDir, textPath, isText);
+  return (key) => {
+    const hit = read(key);
+    return hit && { text: hit.value, bytes: hit.bytes };
   };
 }

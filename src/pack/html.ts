@@ -5,7 +5,7 @@
  * requests, and a Content-Security-Policy forbids both.
  */
 import type { Element, ElementContent, Root as HastRoot } from 'hast';
-import type { Root } from 'mdast';
+import type { Root, RootContent } from 'mdast';
 import rehypeStringify from 'rehype-stringify';
 import remarkRehype from 'remark-rehype';
 import { unified } from 'unified';
@@ -36,7 +36,16 @@ function fontFace(bytes: Uint8Array, weight: number): string {
  * remark-rehype; the block-by-block route below must give the same bytes
  * (test/pack/content.test.ts compares them).
  */
-export function toHtml(input: HtmlInput, { whole = false }: { readonly whole?: boolean } = {}): string {
+export interface HtmlParts {
+  /** The tree's top-level nodes in parts (splitParts); the page's body is theirs in order. */
+  readonly parts: readonly (readonly RootContent[])[];
+  /** A part's body HTML as an earlier build wrote it, if known. */
+  readonly known: (i: number) => string | undefined;
+  /** Hears of each part's body HTML written here. */
+  readonly fresh: (i: number, html: string) => void;
+}
+
+export function toHtml(input: HtmlInput, { whole = false, parts }: { readonly whole?: boolean; readonly parts?: HtmlParts } = {}): string {
   const toHast = unified().use(remarkRehype, {
     handlers: {
       image(state, node) {
@@ -80,12 +89,27 @@ export function toHtml(input: HtmlInput, { whole = false }: { readonly whole?: b
   const page = toText.stringify(doc);
   const at = page.indexOf('<main></main>');
   if (at < 0 || page.indexOf('<main></main>', at + 1) >= 0) throw new Error('internal: the page template has no single empty <main>');
-  const blocks = whole || hasFootnotes(input.tree) ? [input.tree] : input.tree.children.map((node): Root => ({ type: 'root', children: [node] }));
-  const body: string[] = [];
-  for (const block of blocks) {
-    const hast = toHast.runSync(block) as HastRoot;
-    if (hast.children.length > 0) body.push(toText.stringify(hast));
-  }
+  const convert = (nodes: readonly RootContent[]): string[] => {
+    const out: string[] = [];
+    for (const node of nodes) {
+      const hast = toHast.runSync({ type: 'root', children: [node] }) as HastRoot;
+      if (hast.children.length > 0) out.push(toText.stringify(hast));
+    }
+    return out;
+  };
+  let body: string[];
+  if (whole || hasFootnotes(input.tree)) {
+    const hast = toHast.runSync(input.tree) as HastRoot;
+    body = hast.children.length > 0 ? [toText.stringify(hast)] : [];
+  } else if (parts) {
+    // A part's HTML is its blocks' joined as the body joins them; a part that makes nothing adds no line.
+    body = parts.parts.map((nodes, i) => {
+      let html = parts.known(i);
+      if (html === undefined) parts.fresh(i, (html = convert(nodes).join('\n')));
+      return html;
+    });
+    body = body.filter((h) => h !== '');
+  } else body = convert(input.tree.children);
   return `${page.slice(0, at)}<main>${body.join('\n')}</main>${page.slice(at + '<main></main>'.length)}\n`;
 }
 

@@ -1,5 +1,5 @@
 /** index.md: the pack tree as GitHub-flavoured Markdown, charts as image files beside it. */
-import type { Root, Text } from 'mdast';
+import type { Root, RootContent, Text } from 'mdast';
 import type { Handle } from 'mdast-util-to-markdown';
 import remarkGfm from 'remark-gfm';
 import remarkStringify from 'remark-stringify';
@@ -61,4 +61,22 @@ const processor = unified().use(remarkGfm).use(remarkStringify, { bullet: '-', f
 
 export function toMarkdown(tree: Root): string {
   return processor.stringify(tree);
+}
+
+/**
+ * index.md from the tree's parts (splitParts: the cover, then each level-2
+ * heading with what follows it), each written alone or, where `known` has
+ * it, taken as an earlier build wrote it; `fresh` hears of each part written
+ * here. remark joins a root's blocks with a blank line, and a part begins
+ * with a heading, which nothing before it changes, so the parts joined by a
+ * blank line are the whole document's bytes (test/pack/parts.test.ts).
+ */
+export function toMarkdownByParts(parts: readonly (readonly RootContent[])[], known: (i: number) => string | undefined, fresh: (i: number, md: string) => void): string {
+  const texts = parts.map((nodes, i) => {
+    let md = known(i);
+    if (md === undefined) fresh(i, (md = processor.stringify({ type: 'root', children: [...nodes] })));
+    // Each part's text ends with the one line end a document ends with.
+    return md.slice(0, -1);
+  });
+  return `${texts.join('\n\n')}\n`;
 }

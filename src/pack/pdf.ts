@@ -24,6 +24,7 @@ import { embedWholeFont } from '../render/pdf-font.ts';
 import { type Face, SheetInk, opacityKey, textWidth } from '../render/pdf-ink.ts';
 import type { Scene } from '../render/scene/types.ts';
 import { plain } from './mdast.ts';
+import { splitParts } from './parts.ts';
 
 export const PAPER = { a4: [595.28, 841.89], letter: [612, 792] } as const;
 export type Paper = keyof typeof PAPER;
@@ -56,19 +57,6 @@ export interface LaidOutPart {
   readonly shaped: readonly (readonly [face: string, glyph: number, text: string])[];
   /** Contents entries: the line's sheet and top, and the heading it lists (its page number is added when pages are known). */
   readonly contentsLines: readonly { readonly sheet: number; readonly y: number; readonly target: string }[];
-}
-
-/**
- * The tree's top-level nodes in parts: what comes before the first level-2
- * heading (the cover), then each level-2 heading with what follows it.
- */
-export function splitParts(tree: Root): RootContent[][] {
-  const parts: RootContent[][] = [];
-  for (const node of tree.children) {
-    if ((node.type === 'heading' && node.depth === 2) || parts.length === 0) parts.push([]);
-    parts[parts.length - 1]!.push(node);
-  }
-  return parts;
 }
 
 const MARGIN = { left: 50, right: 50, top: 54, bottom: 58 };

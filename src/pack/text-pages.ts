@@ -10,6 +10,7 @@ import type { Root } from 'mdast';
 import { loadFonts } from '../render/fonts.ts';
 import { type ChartJob, drawCharts } from '../render/pool/chart-pool.ts';
 import type { Scene } from '../render/scene/types.ts';
+import { splitParts } from './parts.ts';
 import { workerEntry } from '../worker-entry.ts';
 
 export interface TextPagesInput {
@@ -18,6 +19,14 @@ export interface TextPagesInput {
   readonly scenes: ReadonlyMap<string, Scene>;
   /** Standalone SVGs to draw once the pages are written (the worker has time to spare while the PDF is laid out). */
   readonly charts?: readonly ChartJob[];
+  /** With a build cache: each part's (splitParts) Markdown and body HTML from an earlier build, where known. */
+  readonly known?: readonly (PartText | undefined)[];
+}
+
+/** One part's index.md text and index.html body. */
+export interface PartText {
+  readonly md: string;
+  readonly html: string;
 }
 
 /** A standalone SVG as its file's bytes: moved, not copied, from the worker. */
@@ -31,6 +40,8 @@ export interface TextPages {
   readonly html: Uint8Array;
   /** The SVG files of the `charts` asked for, in their order. */
   readonly charts: readonly SvgFile[];
+  /** With `known`: the parts written here, by part index, for the cache. */
+  readonly fresh: readonly (readonly [index: number, text: PartText])[];
 }
 
 const encoder = new TextEncoder();
@@ -43,11 +54,29 @@ const encoder = new TextEncoder();
 export const loadTextWriters = () => Promise.all([import('./html.ts'), import('./markdown.ts')]);
 
 export async function writeTextPagesHere(input: TextPagesInput): Promise<TextPages> {
-  const [{ toHtml }, { toMarkdown }] = await loadTextWriters();
-  const md = encoder.encode(toMarkdown(input.tree));
-  const html = encoder.encode(toHtml({ tree: input.tree, title: input.title, scenes: input.scenes, fonts: loadFonts() }));
+  const [{ toHtml }, { toMarkdown, toMarkdownByParts }] = await loadTextWriters();
+  const pageInput = { tree: input.tree, title: input.title, scenes: input.scenes, fonts: loadFonts() };
+  const fresh: [number, PartText][] = [];
+  let md: Uint8Array;
+  let html: Uint8Array;
+  if (input.known) {
+    const known = input.known;
+    const parts = splitParts(input.tree);
+    const freshMd = new Map<number, string>();
+    const freshHtml = new Map<number, string>();
+    md = encoder.encode(toMarkdownByParts(parts, (i) => known[i]?.md, (i, t) => freshMd.set(i, t)));
+    html = encoder.encode(toHtml(pageInput, { parts: { parts, known: (i) => known[i]?.html, fresh: (i, t) => freshHtml.set(i, t) } }));
+    // A part is kept only with both its texts (a tree with footnotes is converted whole: none).
+    for (const [i, m] of freshMd) {
+      const h = freshHtml.get(i) ?? known[i]?.html;
+      if (h !== undefined) fresh.push([i, { md: m, html: h }]);
+    }
+  } else {
+    md = encoder.encode(toMarkdown(input.tree));
+    html = encoder.encode(toHtml(pageInput));
+  }
   const charts = input.charts?.length ? (await drawCharts(input.charts, 0)).map((r) => ({ id: r.id, svg: encoder.encode(r.svg) })) : [];
-  return { md, html, charts };
+  return { md, html, charts, fresh };
 }
 
 /** A worker for the pages: `run` hands it the pages to write, `stop` ends it (unused or not). */
