@@ -150,7 +150,6 @@ export function layoutPart(nodes: readonly RootContent[], first: boolean, contex
   let page!: SheetInk;
   let y = 0;
 
-  const ink = (p: SheetInk) => p;
   const newPage = () => {
     page = new SheetInk();
     pages.push(page);
@@ -240,7 +239,7 @@ export function layoutPart(nodes: readonly RootContent[], first: boolean, contex
         j++;
       }
       const internal = run.link?.startsWith('#');
-      ink(page).text(textOut, lx, base, size, fontOf(run), internal ? LINK : color);
+      page.text(textOut, lx, base, size, fontOf(run), internal ? LINK : color);
       if (internal) links.push({ page: pages.length - 1, rect: [lx, base - 2, lx + w, base + size], target: run.link!.slice(1) });
       lx += w + line[j - 1]!.space;
       i = j;
@@ -281,7 +280,7 @@ export function layoutPart(nodes: readonly RootContent[], first: boolean, contex
     const used = flow(runsOf(h.children, true), MARGIN.left, width, size, size * 1.25);
     y -= used;
     if (h.depth === 2) {
-      ink(page).line(MARGIN.left, y - 2, MARGIN.left + width, y - 2, 1.2, INK);
+      page.line(MARGIN.left, y - 2, MARGIN.left + width, y - 2, 1.2, INK);
       y -= 12;
     } else y -= 4;
   };
@@ -303,7 +302,7 @@ export function layoutPart(nodes: readonly RootContent[], first: boolean, contex
           const size = 9.5;
           const lines = wrap(runs, maxW - 12, size);
           ensure(Math.min(lines.length, 2) * size * 1.4);
-          ink(page).text(l.ordered ? `${k + 1}.` : '•', x, y - size * 0.95, size, regular, MUTED);
+          page.text(l.ordered ? `${k + 1}.` : '•', x, y - size * 0.95, size, regular, MUTED);
           flowLines(lines, x + 12, size, size * 1.4);
           y -= 2;
         } else if (child.type === 'list') listBlock(child, x + 12, maxW - 12, false);
@@ -321,7 +320,7 @@ export function layoutPart(nodes: readonly RootContent[], first: boolean, contex
     y -= 3;
     for (const line of lines) {
       ensure(lead);
-      ink(page).rect(x, y - lead - 1, maxW, lead + 2, CODE_BACKGROUND);
+      page.rect(x, y - lead - 1, maxW, lead + 2, CODE_BACKGROUND);
       drawLine(line, x + 6, y, size);
       y -= lead;
     }
@@ -371,7 +370,7 @@ export function layoutPart(nodes: readonly RootContent[], first: boolean, contex
         cx += w;
       });
       y -= h;
-      ink(page).line(x, y, x + maxW, y, header ? 0.9 : 0.4, header ? INK : RULE);
+      page.line(x, y, x + maxW, y, header ? 0.9 : 0.4, header ? INK : RULE);
     };
     const [head, ...body] = rows;
     if (!head) return;
@@ -428,7 +427,7 @@ export function layoutPart(nodes: readonly RootContent[], first: boolean, contex
         break;
       case 'thematicBreak':
         ensure(12);
-        ink(page).line(x, y - 6, x + maxW, y - 6, 0.5, RULE);
+        page.line(x, y - 6, x + maxW, y - 6, 0.5, RULE);
         y -= 12;
         break;
       case 'html':
