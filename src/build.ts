@@ -21,7 +21,7 @@ import { chartSpec } from './render/scene/spec.ts';
 import { createTextMetrics } from './render/scene/text-metrics.ts';
 import type { Scene } from './render/scene/types.ts';
 import { type ChartJob, defaultJobs, drawCharts } from './render/pool/chart-pool.ts';
-import { type CacheEntry, cacheKey, encodeEntry, entryPath, partKey, partPath, textPath } from './pack/build-cache.ts';
+import { type CacheEntry, type Stored, cacheKey, encodeEntry, entryPath, partKey, partPath, textPath } from './pack/build-cache.ts';
 import { splitParts } from './pack/parts.ts';
 import { RECORD_FILE, type SummaryLike, compareSummaries, comparisonRecord } from './review/since.ts';
 import { TOOL } from './version.ts';
@@ -75,9 +75,9 @@ export interface PackOptions {
   /** Entries of an earlier build's cache, by key; absent: no cache is read or written. */
   readonly cache?: (key: string) => { readonly entry: CacheEntry; readonly bytes: () => Uint8Array } | undefined;
   /** Laid-out parts of an earlier build's pack.pdf, by part key (read only when `cache` is given). */
-  readonly partCache?: (key: string) => { readonly part: LaidOutPart; readonly bytes: () => Uint8Array } | undefined;
+  readonly partCache?: Stored<LaidOutPart>;
   /** The parts' index.md and index.html texts of an earlier build, by part key (read only when `cache` is given). */
-  readonly textCache?: (key: string) => { readonly text: PartText; readonly bytes: () => Uint8Array } | undefined;
+  readonly textCache?: Stored<PartText>;
 }
 
 export const DEFAULT_OPTIONS: PackOptions = { paper: 'a4', png: false };
@@ -223,7 +223,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     ? partKeys.map((key) => {
         const hit = options.textCache?.(key);
         if (hit) kept.set(textPath(key), hit.bytes);
-        return hit?.text;
+        return hit?.value;
       })
     : undefined;
   // Markdown and HTML on the other thread, while this one lays out the PDF.
@@ -245,7 +245,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
       const key = partKeys[i];
       const hit = key === undefined ? undefined : options.partCache?.(key);
       if (hit && key !== undefined) kept.set(partPath(key), hit.bytes);
-      return hit?.part;
+      return hit?.value;
     },
   });
   files.set('pack.pdf', pdf.bytes);

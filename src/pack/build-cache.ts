@@ -64,7 +64,7 @@ export const encodeEntry = (e: CacheEntry): Uint8Array => new Uint8Array(seriali
  * to writing it where links cannot be made): a plant's entries are 200 MB
  * that a rebuild held to the end.
  */
-function openStored<T>(packDir: string, pathOf: (key: string) => string, valid: (v: unknown) => v is T): (key: string) => { value: T; bytes: () => Uint8Array } | undefined {
+function openStored<T>(packDir: string, pathOf: (key: string) => string, valid: (v: unknown) => v is T): Stored<T> {
   return (key) => {
     const file = path.join(packDir, pathOf(key));
     let value: unknown;
@@ -112,14 +112,11 @@ const isPart = (p: unknown): p is LaidOutPart =>
   typeof p === 'object' && p !== null && Array.isArray((p as LaidOutPart).sheets) && (p as LaidOutPart).sheets.every((s) => s instanceof Uint8Array) &&
   Array.isArray((p as LaidOutPart).anchors) && Array.isArray((p as LaidOutPart).links) && Array.isArray((p as LaidOutPart).contentsLines) && Array.isArray((p as LaidOutPart).opacities) && Array.isArray((p as LaidOutPart).shaped);
 
+/** What an earlier build kept, read on demand: the value, and its file's bytes for a rebuild to link. */
+export type Stored<T> = (key: string) => { readonly value: T; readonly bytes: () => Uint8Array } | undefined;
+
 /** The laid-out PDF parts an earlier build left in `packDir`. */
-export function openPartCache(packDir: string): (key: string) => { part: LaidOutPart; bytes: () => Uint8Array } | undefined {
-  const read = openStored(packDir, partPath, isPart);
-  return (key) => {
-    const hit = read(key);
-    return hit && { part: hit.value, bytes: hit.bytes };
-  };
-}
+export const openPartCache = (packDir: string): Stored<LaidOutPart> => openStored(packDir, partPath, isPart);
 
 /** A part's index.md text and index.html body, under the same key as its PDF pages. */
 export const textPath = (key: string) => `${CACHE_DIR}/text-${key}.v8`;
@@ -127,10 +124,4 @@ export const textPath = (key: string) => `${CACHE_DIR}/text-${key}.v8`;
 const isText = (t: unknown): t is PartText => typeof t === 'object' && t !== null && typeof (t as PartText).md === 'string' && typeof (t as PartText).html === 'string';
 
 /** The parts' Markdown and HTML an earlier build left in `packDir`. */
-export function openTextCache(packDir: string): (key: string) => { text: PartText; bytes: () => Uint8Array } | undefined {
-  const read = openStored(packDir, textPath, isText);
-  return (key) => {
-    const hit = read(key);
-    return hit && { text: hit.value, bytes: hit.bytes };
-  };
-}
+export const openTextCache = (packDir: string): Stored<PartText> => openStored(packDir, textPath, isText);

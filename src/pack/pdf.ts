@@ -53,7 +53,7 @@ export interface LaidOutPart {
   readonly anchors: readonly (readonly [id: string, sheet: number, y: number])[];
   /** Internal links on the sheets, to heading ids. */
   readonly links: readonly LinkBox[];
-  /** Glyphs the fonts' cmaps do not reach, with their text: [face key, glyph number, text]. */
+  /** Glyphs whose text is not what the fonts' cmaps give (ligatures, alternate forms): [face key, glyph number, text]. */
   readonly shaped: readonly (readonly [face: string, glyph: number, text: string])[];
   /** Contents entries: the line's sheet and top, and the heading it lists (its page number is added when pages are known). */
   readonly contentsLines: readonly { readonly sheet: number; readonly y: number; readonly target: string }[];
@@ -113,7 +113,7 @@ function runsOf(nodes: readonly PhrasingContent[], bold = false, link?: string):
   return out;
 }
 
-/** The glyphs that sheets drew and the cmaps do not reach, each once, in a fixed order. */
+/** The glyphs that sheets drew whose text the cmaps do not give, each once, in a fixed order. */
 function shapedOf(sheets: readonly SheetInk[]): [string, number, string][] {
   const all = new Map<string, [string, number, string]>();
   for (const s of sheets) for (const [face, m] of s.shaped) for (const [g, t] of m) if (!all.has(`${face} ${g}`)) all.set(`${face} ${g}`, [face, g, t]);

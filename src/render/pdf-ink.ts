@@ -123,7 +123,7 @@ export class SheetInk {
   private readonly ops: string[] = [];
   /** Opacities used, for the document's graphics-state resources. */
   readonly opacities = new Set<number>();
-  /** Glyphs drawn that the font's cmap does not reach, by face key: glyph number → text (for the ToUnicode map). */
+  /** Glyphs drawn whose text is not what the font's cmap gives, by face key: glyph number → text (for the ToUnicode map). */
   readonly shaped = new Map<string, Map<number, string>>();
 
   /** One line of text with its baseline starting at (x, y). */
