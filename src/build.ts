@@ -2,7 +2,6 @@
  * From a loaded workspace to the planned pack: every output file with its
  * bytes, decided before anything is written (the pack writer writes them).
  */
-import { serialize } from 'node:v8';
 import type { Assessment } from './analyse.ts';
 import { collectIfGrown } from './collect.ts';
 import { planSummary, sha256 } from './assess.ts';
@@ -21,7 +20,8 @@ import { chartSpec } from './render/scene/spec.ts';
 import { createTextMetrics } from './render/scene/text-metrics.ts';
 import type { Scene } from './render/scene/types.ts';
 import { type ChartJob, defaultJobs, drawCharts } from './render/pool/chart-pool.ts';
-import { type CacheEntry, type Stored, cacheKey, encodeEntry, entryPath, partKey, partPath, textPath } from './pack/build-cache.ts';
+import { type CacheEntry, type Stored, cacheKey, encodeEntry, encodeStored, entryPath, partKey, partPath, textPath } from './pack/build-cache.ts';
+import { chartIdOf } from './pack/mdast.ts';
 import { splitParts } from './pack/parts.ts';
 import { RECORD_FILE, type SummaryLike, compareSummaries, comparisonRecord } from './review/since.ts';
 import { TOOL } from './version.ts';
@@ -209,12 +209,10 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   const keyOfChart = new Map(options.cache ? ws.characteristics.map((c, i) => [c.characteristic.id, keys[i]!] as const) : []);
   const partKeys = options.cache
     ? parts.map((nodes) => {
-        const charts: string[] = [];
-        for (const n of nodes) {
-          if (n.type !== 'paragraph' || n.children.length !== 1 || n.children[0]!.type !== 'image') continue;
-          const id = n.children[0]!.data?.chartId;
-          if (id !== undefined) charts.push(keyOfChart.get(id) ?? `unknown ${id}`);
-        }
+        const charts = nodes.flatMap((n) => {
+          const id = chartIdOf(n);
+          return id === undefined ? [] : [keyOfChart.get(id) ?? `unknown ${id}`];
+        });
         return partKey(nodes, charts, options.paper);
       })
     : [];
@@ -298,7 +296,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
         if (old) {
           cache.set(file, old);
           cacheKept.add(file);
-        } else if (value !== undefined) cache.set(file, () => new Uint8Array(serialize(value)));
+        } else if (value !== undefined) cache.set(file, () => encodeStored(value));
       }
     });
   }

@@ -55,7 +55,10 @@ export function cacheKey(ws: Workspace, input: CharacteristicInput, asOf: IsoDat
 
 export const entryPath = (key: string) => `${CACHE_DIR}/${key}.v8`;
 
-export const encodeEntry = (e: CacheEntry): Uint8Array => new Uint8Array(serialize(e));
+/** What the cache keeps, as its file's bytes (V8's serialisation, read back by openStored). */
+export const encodeStored = (value: unknown): Uint8Array => new Uint8Array(serialize(value));
+
+export const encodeEntry: (e: CacheEntry) => Uint8Array = encodeStored;
 
 /**
  * What an earlier build left in `packDir` under `pathOf(key)`, read on
@@ -79,7 +82,7 @@ function openStored<T>(packDir: string, pathOf: (key: string) => string, valid: 
         return new Uint8Array(readFileSync(file));
       } catch {
         // Gone since it was read: the same value, encoded again.
-        return new Uint8Array(serialize(value));
+        return encodeStored(value);
       }
     };
     return { value, bytes };

@@ -1,6 +1,6 @@
 /** Small builders for the mdast nodes the pack is made of. Text is always a text node, so it is escaped by every serialiser. */
 import { printable } from '../format.ts';
-import type { BlockContent, Code, Heading, Image, Link, List, Paragraph, PhrasingContent, Strong, Table, TableCell, Text } from 'mdast';
+import type { BlockContent, Code, Heading, Image, Link, List, Paragraph, PhrasingContent, RootContent, Strong, Table, TableCell, Text } from 'mdast';
 
 export type Inline = PhrasingContent | string;
 
@@ -45,6 +45,13 @@ export function table(header: readonly string[], rows: readonly (readonly Inline
 /** A chart: an image whose file is the standalone SVG, carrying the chart's id for the HTML and PDF serialisers. */
 export function chartImage(id: string, alt: string, file: string): Image {
   return { type: 'image', url: file, alt: printable(alt), data: { chartId: id } };
+}
+
+/** The chart a top-level block draws: a paragraph holding only a chart image (chartImage). */
+export function chartIdOf(node: RootContent): string | undefined {
+  if (node.type !== 'paragraph' || node.children.length !== 1) return undefined;
+  const only = node.children[0]!;
+  return only.type === 'image' ? only.data?.chartId : undefined;
 }
 
 /** Plain text of a node tree (for slugs and the contents). */

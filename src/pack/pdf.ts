@@ -23,7 +23,7 @@ import { useNativeDeflate } from '../render/pdf-deflate.ts';
 import { embedWholeFont } from '../render/pdf-font.ts';
 import { type Face, SheetInk, opacityKey, textWidth } from '../render/pdf-ink.ts';
 import type { Scene } from '../render/scene/types.ts';
-import { plain } from './mdast.ts';
+import { chartIdOf, plain } from './mdast.ts';
 import { splitParts } from './parts.ts';
 
 export const PAPER = { a4: [595.28, 841.89], letter: [612, 792] } as const;
@@ -404,9 +404,9 @@ export function layoutPart(nodes: readonly RootContent[], first: boolean, contex
         break;
       }
       case 'paragraph': {
-        const only = node.children.length === 1 ? node.children[0] : undefined;
-        if (only?.type === 'image' && only.data?.chartId) {
-          const scene = context.scenes.get(only.data.chartId);
+        const chartId = chartIdOf(node);
+        if (chartId) {
+          const scene = context.scenes.get(chartId);
           if (scene) chartBlock(scene, x, maxW);
           break;
         }
@@ -440,12 +440,16 @@ export function layoutPart(nodes: readonly RootContent[], first: boolean, contex
 
   newPage();
   for (const node of nodes) block(node);
+  return partOf(pages, anchors, links, contentsLines);
+}
+
+/** Drawn sheets as a part: compressed here, so that a part kept in the cache is ready to write (zlib's default level). */
+function partOf(sheets: readonly SheetInk[], anchors: LaidOutPart['anchors'], links: LaidOutPart['links'], contentsLines: LaidOutPart['contentsLines']): LaidOutPart {
   const opacities = new Set<number>();
-  for (const p of pages) for (const o of p.opacities) opacities.add(o);
+  for (const s of sheets) for (const o of s.opacities) opacities.add(o);
   return {
-    shaped: shapedOf(pages),
-    // Compressed here, so that a part kept in the cache is ready to write (level 6, zlib's default).
-    sheets: pages.map((p) => new Uint8Array(deflateSync(p.content(), { level: 6 }))),
+    shaped: shapedOf(sheets),
+    sheets: sheets.map((s) => new Uint8Array(deflateSync(s.content(), { level: 6 }))),
     opacities: [...opacities].sort((a, b) => a - b),
     anchors,
     links,
@@ -483,8 +487,7 @@ export async function scenePdf(scene: Scene, fonts: PdfInput['fonts']): Promise<
   const faces = facesOf(fonts);
   const ink = new SheetInk();
   drawScene(ink, scene, { x: 20, top: scene.height + 20, scale: 1 }, faces);
-  const part: LaidOutPart = { sheets: [new Uint8Array(deflateSync(ink.content()))], opacities: [...ink.opacities], shaped: shapedOf([ink]), anchors: [], links: [], contentsLines: [] };
-  assemble(doc, [part], fonts, faces, [scene.width + 40, scene.height + 40], null);
+  assemble(doc, [partOf([ink], [], [], [])], fonts, faces, [scene.width + 40, scene.height + 40], null);
   return doc.save({ useObjectStreams: false });
 }
 

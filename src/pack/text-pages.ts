@@ -68,7 +68,7 @@ export async function writeTextPagesHere(input: TextPagesInput): Promise<TextPag
     html = encoder.encode(toHtml(pageInput, { parts: { parts, known: (i) => known[i]?.html, fresh: (i, t) => freshHtml.set(i, t) } }));
     // A part is kept only with both its texts (a tree with footnotes is converted whole: none).
     for (const [i, m] of freshMd) {
-      const h = freshHtml.get(i) ?? known[i]?.html;
+      const h = freshHtml.get(i);
       if (h !== undefined) fresh.push([i, { md: m, html: h }]);
     }
   } else {

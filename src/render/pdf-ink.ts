@@ -7,9 +7,9 @@
  * opacity's graphics state by its value) and write text as the font's own
  * glyph numbers, so a page's stream does not depend on the document it goes
  * into: pages can be laid out apart (and kept in the build cache) and
- * joined later. The document embeds each font whole (pdf-lib's embedder
- * without subsetting: Identity-H, CID = glyph number), which is what makes
- * glyph numbers the font's own.
+ * joined later. The document embeds each font whole (pdf-font.ts:
+ * Identity-H, CID = glyph number), which is what makes glyph numbers the
+ * font's own.
  */
 import type { RGB } from 'pdf-lib';
 import { decimalText } from '../format.ts';
