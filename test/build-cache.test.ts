@@ -5,7 +5,7 @@
  * entry is redone, never trusted; the number of threads never changes a
  * byte. Expected outputs are the cold builds themselves, made without cache.
  */
-import { cpSync, mkdtempSync, readFileSync, readdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { cpSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -106,6 +106,34 @@ describe('the build cache', () => {
     // A file put into the pack itself is still caught.
     writeFileSync(path.join(out, 'extra.txt'), 'x');
     expect(cli('verify', out).code).toBe(1);
+  }, 180_000);
+
+  it('writes a pack whose template has a footnote whole, and its rebuild equals a cold build', () => {
+    // A footnote spans parts (its list comes at the end of index.html), so such a tree is never written
+    // part by part; a rebuild must still give the cold build's bytes.
+    const noted = path.join(temp, 'noted');
+    cpSync(path.join(ROOT, 'data/demo'), noted, { recursive: true });
+    mkdirSync(path.join(noted, 'templates'));
+    const method = readFileSync(path.join(ROOT, 'templates/method.md'), 'utf8');
+    writeFileSync(path.join(noted, 'templates/method.md'), `${method.trimEnd()}\n\nLimits are recalculated only on a ledger row.[^why]\n\n[^why]: So that every change of limits has a reason on record.\n`);
+    const warmOut = path.join(temp, 'noted-out');
+    expect(json(cli('build', noted, '--out', warmOut, '--json')).cache).toEqual({ reused: 0, redone: 19 });
+    const earlier = path.join(temp, 'noted-earlier');
+    cpSync(warmOut, earlier, { recursive: true });
+    const file = path.join(noted, 'data/fill-volume.csv');
+    const rows = readFileSync(file, 'utf8').trimEnd().split('\n');
+    const [date, value] = rows.at(-1)!.split(',');
+    rows[rows.length - 1] = `${date},${(Number(value) - 0.3).toFixed(1)}`;
+    writeFileSync(file, `${rows.join('\n')}\n`);
+    expect(json(cli('build', noted, '--out', warmOut, '--previous', earlier, '--json')).cache).toEqual({ reused: 18, redone: 1 });
+    const coldOut = path.join(temp, 'noted-cold');
+    expect(cli('build', noted, '--out', coldOut, '--previous', earlier, '--no-cache', '-q').code).toBe(0);
+    expect(packOnly(warmOut)).toEqual(packOnly(coldOut));
+    // The footnote is there: its reference and its definition in index.md, its list in index.html.
+    const md = readFileSync(path.join(warmOut, 'index.md'), 'utf8');
+    expect(md).toContain('[^why]: So that every change');
+    const html = readFileSync(path.join(warmOut, 'index.html'), 'utf8');
+    expect(html).toMatch(/<section[^>]*data-footnotes[^>]*>[\s\S]*So that every change of limits has a reason on record/);
   }, 180_000);
 });
 

@@ -12,6 +12,7 @@ import { unified } from 'unified';
 import { FONT_FAMILY } from '../render/fonts.ts';
 import type { Scene } from '../render/scene/types.ts';
 import { inlineSvg } from '../render/svg-inline.ts';
+import { hasFootnotes } from './mdast.ts';
 import { PACK_CSS } from './style.ts';
 
 export interface HtmlInput {
@@ -111,10 +112,4 @@ export function toHtml(input: HtmlInput, { whole = false, parts }: { readonly wh
     body = body.filter((h) => h !== '');
   } else body = convert(input.tree.children);
   return `${page.slice(0, at)}<main>${body.join('\n')}</main>${page.slice(at + '<main></main>'.length)}\n`;
-}
-
-/** Whether any node of `tree` is a footnote reference or definition. */
-function hasFootnotes(node: { type: string; children?: unknown[] }): boolean {
-  if (node.type === 'footnoteReference' || node.type === 'footnoteDefinition') return true;
-  return node.children?.some((c) => hasFootnotes(c as { type: string; children?: unknown[] })) ?? false;
 }

@@ -54,6 +54,22 @@ export function chartIdOf(node: RootContent): string | undefined {
   return only.type === 'image' ? only.data?.chartId : undefined;
 }
 
+/** Whether any node of `node` is a footnote reference or definition (the one thing that spans a tree's parts). */
+export function hasFootnotes(node: { type: string; children?: unknown[] }): boolean {
+  if (node.type === 'footnoteReference' || node.type === 'footnoteDefinition') return true;
+  return node.children?.some((c) => hasFootnotes(c as { type: string; children?: unknown[] })) ?? false;
+}
+
+/** The ids of every chart image in `nodes`, at any depth (the HTML draws each one's scene). */
+export function chartIdsIn(nodes: readonly { type: string; data?: unknown; children?: unknown[] }[], into: Set<string> = new Set()): Set<string> {
+  for (const n of nodes) {
+    const id = n.type === 'image' ? (n.data as Image['data'])?.chartId : undefined;
+    if (id !== undefined) into.add(id);
+    if (n.children) chartIdsIn(n.children as { type: string }[], into);
+  }
+  return into;
+}
+
 /** Plain text of a node tree (for slugs and the contents). */
 export function plain(node: { type: string; value?: string; children?: unknown[] }): string {
   if (typeof node.value === 'string') return node.value;

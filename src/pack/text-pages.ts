@@ -6,22 +6,30 @@
  * standalone SVGs too, and the three run beside the PDF.
  */
 import { Worker } from 'node:worker_threads';
-import type { Root } from 'mdast';
+import type { Root, RootContent } from 'mdast';
 import { loadFonts } from '../render/fonts.ts';
 import { type ChartJob, drawCharts } from '../render/pool/chart-pool.ts';
 import type { Scene } from '../render/scene/types.ts';
-import { splitParts } from './parts.ts';
+import { hasFootnotes } from './mdast.ts';
 import { workerEntry } from '../worker-entry.ts';
 
 export interface TextPagesInput {
-  readonly tree: Root;
+  /**
+   * The pack tree: whole, or (with a build cache) in parts (splitParts),
+   * each part as its nodes or, where an earlier build wrote it, as its
+   * texts. Only a tree without footnotes goes in parts: index.html converts
+   * one with footnotes whole.
+   */
+  readonly tree: { readonly whole: Root } | { readonly parts: readonly PagePart[] };
   readonly title: string;
+  /** The scenes of the charts the tree's nodes draw (the parts given as texts need none). */
   readonly scenes: ReadonlyMap<string, Scene>;
   /** Standalone SVGs to draw once the pages are written (the worker has time to spare while the PDF is laid out). */
   readonly charts?: readonly ChartJob[];
-  /** With a build cache: each part's (splitParts) Markdown and body HTML from an earlier build, where known. */
-  readonly known?: readonly (PartText | undefined)[];
 }
+
+/** One part of the tree: its nodes to write, or its texts as an earlier build wrote them. */
+export type PagePart = { readonly nodes: readonly RootContent[] } | { readonly known: PartText };
 
 /** One part's index.md text and index.html body. */
 export interface PartText {
@@ -40,7 +48,7 @@ export interface TextPages {
   readonly html: Uint8Array;
   /** The SVG files of the `charts` asked for, in their order. */
   readonly charts: readonly SvgFile[];
-  /** With `known`: the parts written here, by part index, for the cache. */
+  /** With the tree in parts: those written here, by part index, for the cache. */
   readonly fresh: readonly (readonly [index: number, text: PartText])[];
 }
 
@@ -55,25 +63,29 @@ export const loadTextWriters = () => Promise.all([import('./html.ts'), import('.
 
 export async function writeTextPagesHere(input: TextPagesInput): Promise<TextPages> {
   const [{ toHtml }, { toMarkdown, toMarkdownByParts }] = await loadTextWriters();
-  const pageInput = { tree: input.tree, title: input.title, scenes: input.scenes, fonts: loadFonts() };
+  const pageInput = { title: input.title, scenes: input.scenes, fonts: loadFonts() };
   const fresh: [number, PartText][] = [];
   let md: Uint8Array;
   let html: Uint8Array;
-  if (input.known) {
-    const known = input.known;
-    const parts = splitParts(input.tree);
+  if ('parts' in input.tree) {
+    const given = input.tree.parts;
+    const nodes = given.map((p) => ('nodes' in p ? p.nodes : []));
+    const known = (i: number) => {
+      const p = given[i]!;
+      return 'known' in p ? p.known : undefined;
+    };
+    // The tree of the parts to write, for the page around them: index.html would convert it whole if it had footnotes.
+    const tree: Root = { type: 'root', children: nodes.flat() };
+    if (hasFootnotes(tree)) throw new Error('internal: a tree with footnotes is written whole, not in parts');
     const freshMd = new Map<number, string>();
     const freshHtml = new Map<number, string>();
-    md = encoder.encode(toMarkdownByParts(parts, (i) => known[i]?.md, (i, t) => freshMd.set(i, t)));
-    html = encoder.encode(toHtml(pageInput, { parts: { parts, known: (i) => known[i]?.html, fresh: (i, t) => freshHtml.set(i, t) } }));
-    // A part is kept only with both its texts (a tree with footnotes is converted whole: none).
-    for (const [i, m] of freshMd) {
-      const h = freshHtml.get(i);
-      if (h !== undefined) fresh.push([i, { md: m, html: h }]);
-    }
+    md = encoder.encode(toMarkdownByParts(nodes, (i) => known(i)?.md, (i, t) => freshMd.set(i, t)));
+    html = encoder.encode(toHtml({ ...pageInput, tree }, { parts: { parts: nodes, known: (i) => known(i)?.html, fresh: (i, t) => freshHtml.set(i, t) } }));
+    for (const [i, m] of freshMd) fresh.push([i, { md: m, html: freshHtml.get(i)! }]);
   } else {
-    md = encoder.encode(toMarkdown(input.tree));
-    html = encoder.encode(toHtml(pageInput));
+    const tree = input.tree.whole;
+    md = encoder.encode(toMarkdown(tree));
+    html = encoder.encode(toHtml({ ...pageInput, tree }));
   }
   const charts = input.charts?.length ? (await drawCharts(input.charts, 0)).map((r) => ({ id: r.id, svg: encoder.encode(r.svg) })) : [];
   return { md, html, charts, fresh };
