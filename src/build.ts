@@ -9,7 +9,7 @@ import { type PreviousLedger, rewriteSentence } from './review/ledger-chain.ts';
 import type { Diagnostic } from './diagnostics.ts';
 import type { IsoDate } from './model.ts';
 import { buildPackTree } from './pack/content.ts';
-import { jsonBytes, jsonChunks } from './pack/json-bytes.ts';
+import { MarkedJson, WrittenJson, jsonBytes, jsonChunks } from './pack/json-bytes.ts';
 import type { FileSink } from './pack/write.ts';
 import { type PagePart, type PagesWorker, type PartText, type TextPagesInput, startPagesWorker, writeTextPagesHere } from './pack/text-pages.ts';
 import { type LaidOutPart, type Paper, toPdf } from './pack/pdf.ts';
@@ -26,6 +26,7 @@ import { splitParts } from './pack/parts.ts';
 import { RECORD_FILE, type SummaryLike, compareSummaries, comparisonRecord } from './review/since.ts';
 import { TOOL } from './version.ts';
 import type { Workspace } from './workspace/load.ts';
+import { deserialize } from 'node:v8';
 
 export interface PlannedPack {
   /** Output path (relative to --out) → contents, in write order. */
@@ -86,6 +87,8 @@ const encoder = new TextEncoder();
 const json = jsonBytes;
 /** summary.json: one line per point (see jsonBytes). */
 const SUMMARY_LAYOUT = { itemPerLine: new Set(['points']) };
+/** Where summary.json's characteristics are written: items of an array in the top-level object. */
+const CHARACTERISTIC_INDENT = '    ';
 const comparePaths = (a: string, b: string) => (a < b ? -1 : a > b ? 1 : 0);
 const byPath = ([a]: [string, unknown], [b]: [string, unknown]) => comparePaths(a, b);
 
@@ -104,21 +107,34 @@ export const MAX_CACHED_POINTS = 100_000;
  * chart, and a plant's is hundreds of megabytes of heap that nothing after
  * this needs (its bytes live outside the heap), so it is not kept.
  */
-function summarise(ws: Workspace, asOf: IsoDate, options: PackOptions, known: (i: number) => Assessment | undefined) {
+function summarise(ws: Workspace, asOf: IsoDate, options: PackOptions, known: (i: number) => Assessment | undefined, written: (i: number) => Uint8Array | null | undefined) {
   // Progress every 50 characteristics: a plant's analysis takes seconds.
   const progress = (done: number, total: number) => (done % 50 === 0 ? options.progress?.('analysis', done, total) : undefined);
   const { summary, ...rest } = planSummary(ws, asOf, options.previousLedger, known, progress);
   const record = comparisonRecord(summary);
   const since = options.previous ? compareSummaries(options.previous, record) : undefined;
+  // A characteristic's part of summary.json is a function of what its cache key hashes: one from the
+  // cache goes in as the bytes an earlier build wrote (a plant's 86 MB took 1.6 s to write afresh);
+  // the others are marked, so that their bytes can be kept in turn.
+  const ranges: (readonly [number, number])[] = [];
+  const characteristics = summary.characteristics.map((c, i) => {
+    const bytes = written(i);
+    return bytes ? new WrittenJson(bytes, CHARACTERISTIC_INDENT) : new MarkedJson(c, (start, end) => (ranges[i] = [start, end]));
+  });
+  const document = { ...summary, characteristics };
   let summaryFile: Uint8Array | { readonly bytes: number; readonly sha256: string };
+  let piece: (i: number) => Uint8Array | undefined;
   if (options.summarySink) {
     const sink = options.summarySink();
-    jsonChunks(summary, SUMMARY_LAYOUT, (b) => sink.write(b));
+    jsonChunks(document, SUMMARY_LAYOUT, (b) => sink.write(b));
     summaryFile = sink.close();
+    piece = (i) => (ranges[i] ? sink.readBack(...ranges[i]) : undefined);
   } else {
-    summaryFile = json(summary, SUMMARY_LAYOUT);
+    const bytes = json(document, SUMMARY_LAYOUT);
+    summaryFile = bytes;
+    piece = (i) => (ranges[i] ? bytes.slice(...ranges[i]) : undefined);
   }
-  return { ...rest, summaryFile, recordBytes: json(record), since };
+  return { ...rest, summaryFile, summaryPiece: piece, recordBytes: json(record), since };
 }
 
 export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOptions = DEFAULT_OPTIONS): Promise<PlannedPack> {
@@ -144,7 +160,13 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   };
   const keys = options.cache ? ws.characteristics.map((c) => cacheKey(ws, c, asOf)) : [];
   const hits = keys.map((k) => options.cache?.(k));
-  const { assessments, diagnostics, integrity, exitCode, summaryFile, recordBytes, since } = summarise(ws, asOf, options, (i) => hits[i]?.entry.assessment);
+  const { assessments, diagnostics, integrity, exitCode, summaryFile, summaryPiece, recordBytes, since } = summarise(
+    ws,
+    asOf,
+    options,
+    (i) => hits[i]?.entry.assessment,
+    (i) => hits[i]?.entry.summary,
+  );
   lap('analysis and summary.json');
   // Markdown and HTML go to another thread when the build may use two. It starts now, so that it
   // loads its modules (a few tenths of a second compiled, about a second through tsx) beside the
@@ -159,21 +181,32 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   const metrics = createTextMetrics(fonts);
   const files = new Map<string, Uint8Array>();
 
-  // Scenes here (every page needs them); charts from the cache are not drawn again.
+  // Scenes here (every page needs them); charts from the cache are not drawn again. A cached scene
+  // stays bytes until a page that draws it is laid out or written again: a rebuild takes nearly
+  // every page from the cache, and a plant's scenes as objects were half a second to read and collect.
   const scenes = new Map<string, Scene>();
+  const sceneBytes = new Map<string, Uint8Array>();
+  const sceneOf = (id: string): Scene | undefined => {
+    let scene = scenes.get(id);
+    const bytes = scene ? undefined : sceneBytes.get(id);
+    if (bytes) scenes.set(id, (scene = deserialize(bytes) as Scene));
+    return scene;
+  };
   const drawn = new Map<string, { svg: Uint8Array; png: Uint8Array | null }>();
   const jobs: ChartJob[] = [];
+  let total = 0;
   assessments.forEach((a, i) => {
     if (a.status !== 'assessed') return;
+    total++;
+    const id = a.characteristic.id;
     const hit = hits[i]?.entry;
-    const scene = hit?.scene ?? layoutChart(chartSpec(a, ws.config.period), metrics);
-    scenes.set(a.characteristic.id, scene);
-    if (hit?.svg && (hit.png || !options.png)) drawn.set(a.characteristic.id, { svg: hit.svg, png: hit.png });
-    else jobs.push({ id: a.characteristic.id, scene, png: options.png });
+    if (hit?.scene) sceneBytes.set(id, hit.scene);
+    else scenes.set(id, layoutChart(chartSpec(a, ws.config.period), metrics));
+    if (hit?.svg && (hit.png || !options.png)) drawn.set(id, { svg: hit.svg, png: hit.png });
+    else jobs.push({ id, scene: sceneOf(id)!, png: options.png });
   });
   lap('scenes');
   let done = drawn.size;
-  const total = scenes.size;
   options.progress?.('charts', done, total);
   // Threads. With two or more, index.md and index.html are written on a worker while this thread
   // lays out the PDF (1,000 characteristics on two cores: 38–43 s → 35 s), and that worker then draws
@@ -235,7 +268,10 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
         return { nodes };
       }),
     };
-    pageScenes = new Map([...drawnHere].flatMap((id) => (scenes.has(id) ? [[id, scenes.get(id)!] as const] : [])));
+    pageScenes = new Map([...drawnHere].flatMap((id) => {
+      const scene = sceneOf(id);
+      return scene ? [[id, scene] as const] : [];
+    }));
   }
   const pagesInput: TextPagesInput = { tree: pagesTree, title: ws.config.title, scenes: pageScenes, ...(svgsOnPagesWorker ? { charts: jobs } : {}) };
   const textPages = pagesWorker ? pagesWorker.run(pagesInput) : writeTextPagesHere(pagesInput);
@@ -248,7 +284,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     author: ws.config.organisation,
     asOf,
     paper: options.paper,
-    scenes,
+    scenes: { get: sceneOf },
     fonts,
     producer: `${TOOL.name} ${TOOL.version}`,
     reuse: (i) => {
@@ -290,9 +326,12 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
       const hit = hits[i];
       const d = drawn.get(a.characteristic.id);
       // An entry read back unchanged is written back as read; a new or grown one (a PNG added) is encoded afresh.
-      const scene = scenes.get(a.characteristic.id) ?? null;
+      const id = a.characteristic.id;
+      const made = scenes.get(id);
+      const scene = sceneBytes.get(id) ?? (made ? encodeStored(made) : null);
       const kept = hit && (!d || d.png === hit.entry.png || !d.png);
-      cache.set(entryPath(keys[i]!), kept ? hit.bytes : () => encodeEntry({ assessment: a, scene, svg: d?.svg ?? null, png: d?.png ?? null }));
+      const entry = () => encodeEntry({ assessment: a, scene, svg: d?.svg ?? null, png: d?.png ?? null, summary: hit?.entry.summary ?? summaryPiece(i) ?? null });
+      cache.set(entryPath(keys[i]!), kept ? hit.bytes : entry);
       if (kept) cacheKept.add(entryPath(keys[i]!));
     });
     // Parts read unchanged are linked; new ones are written. A part's texts are left out when it has

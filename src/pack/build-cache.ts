@@ -1,6 +1,6 @@
 /**
  * The incremental build cache: for each characteristic, its assessment,
- * chart scene and drawn chart, stored under a key that hashes everything
+ * chart scene, drawn chart and part of summary.json, stored under a key that hashes everything
  * they are computed from. A rebuild after one data file changes finds every
  * other characteristic here and analyses and draws only that one; the pack
  * is then assembled from all of them as in a cold build, so its bytes are
@@ -18,7 +18,6 @@ import { deserialize, serialize } from 'node:v8';
 import type { RootContent } from 'mdast';
 import type { Assessment } from '../analyse.ts';
 import type { IsoDate } from '../model.ts';
-import type { Scene } from '../render/scene/types.ts';
 import type { LaidOutPart, Paper } from './pdf.ts';
 import type { PartText } from './text-pages.ts';
 import { TOOL } from '../version.ts';
@@ -26,16 +25,22 @@ import type { CharacteristicInput, Workspace } from '../workspace/load.ts';
 
 export const CACHE_DIR = '.plumbline-cache';
 /** Bump when what an entry holds, or how it is computed, changes without a tool version change. */
-const FORMAT = 3;
+const FORMAT = 4;
 
 export interface CacheEntry {
   readonly assessment: Assessment;
-  /** Null for a characteristic that could not be assessed. */
-  readonly scene: Scene | null;
+  /**
+   * The chart's scene, serialised on its own (encodeStored): read only
+   * where a page that draws it is made again. Null for a characteristic
+   * that could not be assessed.
+   */
+  readonly scene: Uint8Array | null;
   /** The standalone SVG file's bytes. */
   readonly svg: Uint8Array | null;
   /** Drawn only by builds that asked for PNGs; drawn from `svg` when a later build asks. */
   readonly png: Uint8Array | null;
+  /** The characteristic's part of summary.json as written (an item of its `characteristics`), or null if not kept. */
+  readonly summary: Uint8Array | null;
 }
 
 /**
@@ -89,7 +94,9 @@ function openStored<T>(packDir: string, pathOf: (key: string) => string, valid: 
   };
 }
 
-const isEntry = (e: unknown): e is CacheEntry => typeof e === 'object' && e !== null && typeof (e as CacheEntry).assessment === 'object';
+const isEntry = (e: unknown): e is CacheEntry =>
+  typeof e === 'object' && e !== null && typeof (e as CacheEntry).assessment === 'object' &&
+  ((e as CacheEntry).scene === null || (e as CacheEntry).scene instanceof Uint8Array) && ((e as CacheEntry).summary === null || (e as CacheEntry).summary instanceof Uint8Array);
 
 /** The characteristics' entries an earlier build left in `packDir`. */
 export function openCache(packDir: string): (key: string) => { entry: CacheEntry; bytes: () => Uint8Array } | undefined {

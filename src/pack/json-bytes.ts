@@ -9,12 +9,40 @@ import { LazyList } from '../lazy-list.ts';
 const encoder = new TextEncoder();
 const CHUNK = 1 << 20;
 
+/**
+ * A value already written: the bytes this module writes for it at the
+ * indentation `indent` (kept from an earlier build), put into the document
+ * as they are. Only valid where the value would be written at `indent`.
+ */
+export class WrittenJson {
+  constructor(
+    readonly bytes: Uint8Array,
+    readonly indent: string,
+  ) {}
+}
+
+/** A value whose bytes are wanted back: `at` hears where they begin and end in the document (byte offsets). */
+export class MarkedJson {
+  constructor(
+    readonly value: unknown,
+    readonly at: (start: number, end: number) => void,
+  ) {}
+}
+
+/** What the writer is handed: text to encode, bytes as they are, or a point whose byte offset is wanted. */
+type Piece = string | WrittenJson | { readonly here: (offset: number) => void };
+
 /** Counts the nodes of `value`, stopping at `limit`; `limit` too when it holds one of `keys`. */
 function nodesUpTo(value: unknown, limit: number, keys?: ReadonlySet<string>): number {
   let n = 0;
   const walk = (v: unknown): void => {
     n++;
     if (n >= limit || v === null || typeof v !== 'object') return;
+    // Bytes already written, or a value to mark, are never handed to JSON.stringify.
+    if (v instanceof WrittenJson || v instanceof MarkedJson) {
+      n = limit;
+      return;
+    }
     if (v instanceof LazyList) {
       // Not made here: its items count as one node each.
       n += v.length;
@@ -48,7 +76,17 @@ export interface JsonLayout {
   readonly itemPerLine?: ReadonlySet<string>;
 }
 
-function* pieces(value: unknown, indent: string, layout: JsonLayout = {}, key?: string): Generator<string> {
+function* pieces(value: unknown, indent: string, layout: JsonLayout = {}, key?: string): Generator<Piece> {
+  if (value instanceof WrittenJson) {
+    if (value.indent !== indent) throw new Error(`internal: JSON written at indent ${value.indent.length} put at indent ${indent.length}`);
+    return yield value;
+  }
+  if (value instanceof MarkedJson) {
+    let start = 0;
+    yield { here: (offset) => (start = offset) };
+    yield* pieces(value.value, indent, layout, key);
+    return yield { here: (end) => value.at(start, end) };
+  }
   if (key !== undefined && layout.itemPerLine?.has(key) && (Array.isArray(value) || value instanceof LazyList)) {
     const list = value as { readonly length: number; at(i: number): unknown };
     if (list.length === 0) return yield '[]';
@@ -102,21 +140,37 @@ function* pieces(value: unknown, indent: string, layout: JsonLayout = {}, key?: 
  */
 export function jsonBytes(value: unknown, layout: JsonLayout = {}): Uint8Array {
   const out = new GrowingBytes();
-  textChunks(value, layout, CHUNK, (text) => out.write(text));
-  return out.bytes();
+  documentChunks(value, layout, CHUNK, out);
+  return out.result();
 }
 
-/** The document's text, handed on in chunks of at least `chunk` characters (the last one shorter). */
-function textChunks(value: unknown, layout: JsonLayout, chunk: number, write: (text: string) => void): void {
+/** Where the document goes: text to encode, bytes to copy, and how many bytes it holds so far. */
+interface ByteWriter {
+  text(text: string): void;
+  bytes(bytes: Uint8Array): void;
+  offset(): number;
+}
+
+/** The document, handed on as text in chunks of at least `chunk` characters (the last one shorter) and bytes already written. */
+function documentChunks(value: unknown, layout: JsonLayout, chunk: number, out: ByteWriter): void {
   let buffer = '';
+  const flush = () => {
+    if (buffer !== '') out.text(buffer);
+    buffer = '';
+  };
   for (const p of pieces(value, '', layout)) {
-    buffer += p;
-    if (buffer.length >= chunk) {
-      write(buffer);
-      buffer = '';
+    if (typeof p === 'string') {
+      buffer += p;
+      if (buffer.length >= chunk) flush();
+    } else if (p instanceof WrittenJson) {
+      flush();
+      out.bytes(p.bytes);
+    } else {
+      flush();
+      p.here(out.offset());
     }
   }
-  write(`${buffer}\n`);
+  out.text(`${buffer}\n`);
 }
 
 /**
@@ -126,15 +180,24 @@ function textChunks(value: unknown, layout: JsonLayout, chunk: number, write: (t
  */
 export function jsonChunks(value: unknown, layout: JsonLayout, sink: (bytes: Uint8Array) => void, chunk = CHUNK): void {
   // UTF-8 takes at most three bytes per UTF-16 unit; a longer text is encoded in turns.
-  const bytes = new Uint8Array(chunk * 3);
-  textChunks(value, layout, chunk, (text) => {
-    for (let rest = text; rest.length > 0; ) {
-      // encodeInto never splits a surrogate pair, so each turn is whole UTF-8.
-      const { read, written } = encoder.encodeInto(rest, bytes);
-      if (read === 0) throw new RangeError(`jsonChunks: a chunk of ${chunk} characters cannot hold one`);
-      sink(bytes.subarray(0, written));
-      rest = rest.slice(read);
-    }
+  const buffer = new Uint8Array(chunk * 3);
+  let total = 0;
+  documentChunks(value, layout, chunk, {
+    text(text) {
+      for (let rest = text; rest.length > 0; ) {
+        // encodeInto never splits a surrogate pair, so each turn is whole UTF-8.
+        const { read, written } = encoder.encodeInto(rest, buffer);
+        if (read === 0) throw new RangeError(`jsonChunks: a chunk of ${chunk} characters cannot hold one`);
+        sink(buffer.subarray(0, written));
+        total += written;
+        rest = rest.slice(read);
+      }
+    },
+    bytes(bytes) {
+      sink(bytes);
+      total += bytes.length;
+    },
+    offset: () => total,
   });
 }
 
@@ -143,22 +206,36 @@ export function jsonChunks(value: unknown, layout: JsonLayout, sink: (bytes: Uin
  * place: gathering the pieces and joining them at the end held the
  * document twice, and a million-point summary.json is 436 MB.
  */
-class GrowingBytes {
+class GrowingBytes implements ByteWriter {
   /** The most a document may take; only what is written is ever committed. */
   private static readonly MAX = 2 ** 32;
   private readonly buffer = new ArrayBuffer(0, { maxByteLength: GrowingBytes.MAX });
   private length = 0;
 
-  write(text: string): void {
-    // UTF-8 takes at most three bytes per UTF-16 unit.
-    const need = this.length + text.length * 3;
+  private room(need: number): void {
     if (need > this.buffer.byteLength) this.buffer.resize(Math.min(GrowingBytes.MAX, Math.max(need, this.buffer.byteLength * 1.25)));
+  }
+
+  text(text: string): void {
+    // UTF-8 takes at most three bytes per UTF-16 unit.
+    this.room(this.length + text.length * 3);
     const { read, written } = encoder.encodeInto(text, new Uint8Array(this.buffer, this.length));
     if (read < text.length) throw new RangeError(`a JSON document over ${GrowingBytes.MAX} bytes`);
     this.length += written;
   }
 
-  bytes(): Uint8Array {
+  bytes(bytes: Uint8Array): void {
+    if (this.length + bytes.length > GrowingBytes.MAX) throw new RangeError(`a JSON document over ${GrowingBytes.MAX} bytes`);
+    this.room(this.length + bytes.length);
+    new Uint8Array(this.buffer, this.length, bytes.length).set(bytes);
+    this.length += bytes.length;
+  }
+
+  offset(): number {
+    return this.length;
+  }
+
+  result(): Uint8Array {
     this.buffer.resize(this.length);
     return new Uint8Array(this.buffer, 0, this.length);
   }

@@ -36,7 +36,7 @@ export interface PdfInput {
   readonly author: string;
   readonly asOf: string;
   readonly paper: Paper;
-  readonly scenes: ReadonlyMap<string, Scene>;
+  readonly scenes: Scenes;
   readonly fonts: { readonly regular: Uint8Array; readonly semibold: Uint8Array };
   readonly producer: string;
   /** A part laid out by an earlier build, if one is known for part `index` (nodes as splitParts gives them). */
@@ -44,6 +44,9 @@ export interface PdfInput {
 }
 
 /** One part's pages, ready to join a document: plain data, kept in the build cache. */
+/** The charts' scenes by chart id (a Map will do; a rebuild's reads each one only when a part that draws it is laid out). */
+export type Scenes = Pick<ReadonlyMap<string, Scene>, 'get'>;
+
 export interface LaidOutPart {
   /** Each page's content stream, Flate-compressed. */
   readonly sheets: readonly Uint8Array[];
@@ -122,7 +125,7 @@ function shapedOf(sheets: readonly SheetInk[]): [string, number, string][] {
 
 interface LayoutContext {
   readonly paper: Paper;
-  readonly scenes: ReadonlyMap<string, Scene>;
+  readonly scenes: Scenes;
   readonly faces: PdfFaces;
 }
 

@@ -3,7 +3,7 @@ import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { LazyList } from '../../src/lazy-list.ts';
-import { jsonBytes, jsonChunks } from '../../src/pack/json-bytes.ts';
+import { MarkedJson, WrittenJson, jsonBytes, jsonChunks } from '../../src/pack/json-bytes.ts';
 
 const reference = (v: unknown) => `${JSON.stringify(v, null, 2)}\n`;
 const decode = (b: Uint8Array) => new TextDecoder().decode(b);
@@ -110,5 +110,53 @@ describe('jsonChunks: the same bytes, a reused buffer at a time', () => {
     jsonChunks({ s: 'é'.repeat(10_000) }, {}, (b) => sizes.push(b.length), 100);
     expect(Math.max(...sizes)).toBeLessThanOrEqual(300);
     expect(sizes.reduce((a, b) => a + b, 0)).toBe(jsonBytes({ s: 'é'.repeat(10_000) }).length);
+  });
+});
+
+describe('bytes kept from an earlier document (MarkedJson, WrittenJson)', () => {
+  // A summary-like document: its characteristics are marked, their bytes taken from the output, and a
+  // second document made with some of them as written bytes must be the first one's bytes again.
+  // The reference is JSON.stringify (the unmarked values), and JSON.parse of each marked slice.
+  const items = Array.from({ length: 60 }, (_, i) => ({
+    id: `k${i}-é😀`,
+    points: Array.from({ length: (i * 37) % 90 }, (_, j) => ({ x: j / 3, label: `p${j}\u2028"` })),
+    notes: i % 4 ? [] : [{ text: 'a\nb' }],
+  }));
+  const layout = { itemPerLine: new Set(['points']) };
+  const plain = { format: 1, characteristics: items };
+  const marked = (ranges: [number, number][]) => ({ format: 1, characteristics: items.map((v, i) => new MarkedJson(v, (s, e) => (ranges[i] = [s, e]))) });
+  const gather = (value: unknown, chunk?: number) => {
+    const parts: Uint8Array[] = [];
+    jsonChunks(value, layout, (b) => parts.push(b.slice()), chunk);
+    return new Uint8Array(Buffer.concat(parts));
+  };
+
+  it('marks where each value was written, in both writers, without changing a byte', () => {
+    for (const write of [(v: unknown) => jsonBytes(v, layout), (v: unknown) => gather(v, 64)]) {
+      const ranges: [number, number][] = [];
+      const bytes = write(marked(ranges));
+      expect(decode(bytes)).toBe(decode(jsonBytes(plain, layout)));
+      expect(ranges).toHaveLength(items.length);
+      ranges.forEach(([s, e], i) => expect(JSON.parse(decode(bytes.subarray(s, e)))).toEqual(items[i]));
+      // Each value starts a line, after the array's indentation of four spaces.
+      for (const [s] of ranges) expect(decode(bytes.subarray(s - 5, s))).toBe('\n    ');
+    }
+  });
+
+  it('puts written bytes back where they were taken from, for any subset, in both writers', () => {
+    const ranges: [number, number][] = [];
+    const first = jsonBytes(marked(ranges), layout);
+    for (const keep of [() => true, (i: number) => i % 3 === 0, (i: number) => i === 59]) {
+      const again = { format: 1, characteristics: items.map((v, i) => (keep(i) ? new WrittenJson(first.slice(ranges[i]![0], ranges[i]![1]), '    ') : v)) };
+      expect(Buffer.from(jsonBytes(again, layout)).equals(Buffer.from(first))).toBe(true);
+      for (const chunk of [7, 1000]) expect(Buffer.from(gather(again, chunk)).equals(Buffer.from(first))).toBe(true);
+    }
+    // Even where the whole would be small enough for JSON.stringify: written bytes are never stringified.
+    const one = { characteristics: [new WrittenJson(new TextEncoder().encode('{"a": 1}'), '    ')] };
+    expect(decode(jsonBytes(one))).toBe('{\n  "characteristics": [\n    {"a": 1}\n  ]\n}\n');
+  });
+
+  it('refuses written bytes put at another indentation', () => {
+    expect(() => jsonBytes([new WrittenJson(new Uint8Array([0x31]), '    ')])).toThrow(/indent/);
   });
 });

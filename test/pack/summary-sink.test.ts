@@ -4,11 +4,15 @@
  * the manifest lists it with the same size and SHA-256.
  */
 import { createHash } from 'node:crypto';
+import { deserialize } from 'node:v8';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { planPack } from '../../src/build.ts';
+import type { CacheEntry } from '../../src/pack/build-cache.ts';
 import { loadWorkspace } from '../../src/workspace/load.ts';
 import { ROOT } from '../helpers/cli.ts';
+
+const byId = (a: { id: string }, b: { id: string }) => (a.id < b.id ? -1 : a.id > b.id ? 1 : 0);
 
 describe('summary.json through a sink', () => {
   it('gives the same bytes and the same manifest as the in-memory route', async () => {
@@ -28,6 +32,7 @@ describe('summary.json through a sink', () => {
         return {
           write: (b) => (parts.push(Buffer.from(b)), hash.update(b), (bytes += b.length)),
           close: () => ({ bytes, sha256: hash.digest('hex') }),
+          readBack: (start, end) => new Uint8Array(Buffer.concat(parts).subarray(start, end)),
         };
       },
     });
@@ -38,5 +43,25 @@ describe('summary.json through a sink', () => {
     expect(Buffer.concat(parts).equals(expected)).toBe(true);
     expect(streamed.placed.get('summary.json')).toEqual({ bytes: expected.length, sha256: createHash('sha256').update(expected).digest('hex') });
     expect(Buffer.from(streamed.files.get('manifest.json')!).equals(Buffer.from(held.files.get('manifest.json')!))).toBe(true);
+  }, 60_000);
+
+  it('keeps each characteristic\'s part of it in the cache, and a build from that cache writes the same bytes', async () => {
+    const loaded = loadWorkspace(path.join(ROOT, 'data/demo'));
+    if (!loaded.ok) throw new Error('demo does not load');
+    const ws = loaded.workspace;
+    const options = { paper: 'a4', png: false, jobs: 1 } as const;
+    const first = await planPack(ws, '2026-11-30', { ...options, cache: () => undefined });
+    const bytes = Buffer.from(first.files.get('summary.json')!);
+    const parsed = JSON.parse(bytes.toString('utf8')) as { characteristics: { id: string }[] };
+    const entries = new Map([...first.cache].filter(([p]) => !/\/(pdf|text)-/.test(p)).map(([p, made]) => [p.replace(/^.*\//, '').replace(/\.v8$/, ''), deserialize(made()) as CacheEntry]));
+    expect(entries.size).toBe(19);
+    // Each entry's part is one item of summary.json's characteristics, as that file has it, and appears in it as is.
+    const items = [...entries.values()].map((e) => JSON.parse(Buffer.from(e.summary!).toString('utf8')));
+    expect(items.sort(byId)).toEqual([...parsed.characteristics].sort(byId));
+    for (const e of entries.values()) expect(bytes.includes(Buffer.from(e.summary!))).toBe(true);
+    // Built again from the entries alone: the same summary.json, every part taken from the cache.
+    const again = await planPack(ws, '2026-11-30', { ...options, cache: (key) => (entries.has(key) ? { entry: entries.get(key)!, bytes: () => new Uint8Array() } : undefined) });
+    expect(again.cacheUse).toEqual({ reused: 19, redone: 0 });
+    expect(Buffer.from(again.files.get('summary.json')!).equals(bytes)).toBe(true);
   }, 60_000);
 });
