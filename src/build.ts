@@ -20,7 +20,7 @@ import { chartSpec } from './render/scene/spec.ts';
 import { createTextMetrics } from './render/scene/text-metrics.ts';
 import type { Scene } from './render/scene/types.ts';
 import { type ChartJob, defaultJobs, drawCharts } from './render/pool/chart-pool.ts';
-import { type CacheEntry, type Stored, cacheKey, encodeEntry, encodeStored, entryPath, partKey, partPath, textPath } from './pack/build-cache.ts';
+import { type CacheHit, type Side, type SideKind, type Sides, type Stored, cacheKey, encodeEntry, encodeStored, entryPath, partKey, partPath, sidePath, textPath } from './pack/build-cache.ts';
 import { chartIdOf, chartIdsIn, hasFootnotes } from './pack/mdast.ts';
 import { splitParts } from './pack/parts.ts';
 import { RECORD_FILE, type SummaryLike, compareSummaries, comparisonRecord } from './review/since.ts';
@@ -33,6 +33,8 @@ export interface PlannedPack {
   readonly files: ReadonlyMap<string, Uint8Array>;
   /** Output files already written through a sink (summary.json with `summarySink`): their size and SHA-256, which the manifest lists. */
   readonly placed: ReadonlyMap<string, { readonly bytes: number; readonly sha256: string }>;
+  /** Output files to copy from a file of the build cache read (charts drawn by an earlier build), with the size and SHA-256 it recorded. */
+  readonly copies: ReadonlyMap<string, CopiedFile>;
   /**
    * The build cache to leave in the pack folder (path → bytes, made when
    * written: a plant's cache is hundreds of megabytes, not worth holding at
@@ -74,7 +76,7 @@ export interface PackOptions {
   /** Characteristics with more points are not cached (default MAX_CACHED_POINTS). */
   readonly maxCachedPoints?: number;
   /** Entries of an earlier build's cache, by key; absent: no cache is read or written. */
-  readonly cache?: (key: string) => { readonly entry: CacheEntry; readonly bytes: () => Uint8Array } | undefined;
+  readonly cache?: (key: string) => CacheHit | undefined;
   /** Laid-out parts of an earlier build's pack.pdf, by part key (read only when `cache` is given). */
   readonly partCache?: Stored<LaidOutPart>;
   /** The parts' index.md and index.html texts of an earlier build, by part key (read only when `cache` is given). */
@@ -97,6 +99,14 @@ function entries(m: ReadonlyMap<string, Uint8Array>) {
 }
 
 export const chartFile = (id: string) => `charts/${id}.svg`;
+const pngFile = (id: string) => `charts/${id}.png`;
+
+/** An output file copied from the build cache: `from` is relative to the pack folder the cache was read from. */
+export interface CopiedFile {
+  readonly from: string;
+  readonly bytes: number;
+  readonly sha256: string;
+}
 
 /** Characteristics with more points than this are not kept in the build cache. */
 export const MAX_CACHED_POINTS = 100_000;
@@ -107,7 +117,7 @@ export const MAX_CACHED_POINTS = 100_000;
  * chart, and a plant's is hundreds of megabytes of heap that nothing after
  * this needs (its bytes live outside the heap), so it is not kept.
  */
-function summarise(ws: Workspace, asOf: IsoDate, options: PackOptions, known: (i: number) => Assessment | undefined, written: (i: number) => Uint8Array | null | undefined) {
+function summarise(ws: Workspace, asOf: IsoDate, options: PackOptions, known: (i: number) => Assessment | undefined, written: (i: number) => (() => Uint8Array) | undefined) {
   // Progress every 50 characteristics: a plant's analysis takes seconds.
   const progress = (done: number, total: number) => (done % 50 === 0 ? options.progress?.('analysis', done, total) : undefined);
   const { summary, ...rest } = planSummary(ws, asOf, options.previousLedger, known, progress);
@@ -123,17 +133,22 @@ function summarise(ws: Workspace, asOf: IsoDate, options: PackOptions, known: (i
   });
   const document = { ...summary, characteristics };
   let summaryFile: Uint8Array | { readonly bytes: number; readonly sha256: string };
-  let piece: (i: number) => Uint8Array | undefined;
+  let readBack: (start: number, end: number) => Uint8Array;
   if (options.summarySink) {
     const sink = options.summarySink();
     jsonChunks(document, SUMMARY_LAYOUT, (b) => sink.write(b));
     summaryFile = sink.close();
-    piece = (i) => (ranges[i] ? sink.readBack(...ranges[i]) : undefined);
+    readBack = (start, end) => sink.readBack(start, end);
   } else {
     const bytes = json(document, SUMMARY_LAYOUT);
     summaryFile = bytes;
-    piece = (i) => (ranges[i] ? bytes.slice(...ranges[i]) : undefined);
+    readBack = (start, end) => bytes.slice(start, end);
   }
+  /** A characteristic's part of summary.json as written here: its size, and its bytes when read back. */
+  const piece = (i: number) => {
+    const range = ranges[i];
+    return range && { bytes: range[1] - range[0], read: () => readBack(...range) };
+  };
   return { ...rest, summaryFile, summaryPiece: piece, recordBytes: json(record), since };
 }
 
@@ -160,12 +175,15 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   };
   const keys = options.cache ? ws.characteristics.map((c) => cacheKey(ws, c, asOf)) : [];
   const hits = keys.map((k) => options.cache?.(k));
-  const { assessments, diagnostics, integrity, exitCode, summaryFile, summaryPiece, recordBytes, since } = summarise(
+  const { assessments, diagnostics, integrity, exitCode, summaryFile, summaryPiece: piece, recordBytes, since } = summarise(
     ws,
     asOf,
     options,
     (i) => hits[i]?.entry.assessment,
-    (i) => hits[i]?.entry.summary,
+    (i) => {
+      const side = hits[i]?.side('json');
+      return side && (() => side.read());
+    },
   );
   lap('analysis and summary.json');
   // Markdown and HTML go to another thread when the build may use two. It starts now, so that it
@@ -181,32 +199,38 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   const metrics = createTextMetrics(fonts);
   const files = new Map<string, Uint8Array>();
 
-  // Scenes here (every page needs them); charts from the cache are not drawn again. A cached scene
-  // stays bytes until a page that draws it is laid out or written again: a rebuild takes nearly
-  // every page from the cache, and a plant's scenes as objects were half a second to read and collect.
+  // Scenes here (every page needs them); charts from the cache are not drawn again, but copied from
+  // it into the pack. A cached scene is read only where a page that draws it is laid out or written
+  // again: a rebuild takes nearly every page from the cache.
   const scenes = new Map<string, Scene>();
-  const sceneBytes = new Map<string, Uint8Array>();
+  const cachedScenes = new Map<string, Side>();
   const sceneOf = (id: string): Scene | undefined => {
     let scene = scenes.get(id);
-    const bytes = scene ? undefined : sceneBytes.get(id);
-    if (bytes) scenes.set(id, (scene = deserialize(bytes) as Scene));
+    const side = scene ? undefined : cachedScenes.get(id);
+    if (side) scenes.set(id, (scene = deserialize(side.read()) as Scene));
     return scene;
   };
-  const drawn = new Map<string, { svg: Uint8Array; png: Uint8Array | null }>();
+  /** Charts kept in the cache, by pack path: copied from there into the pack. */
+  const copies = new Map<string, CopiedFile>();
   const jobs: ChartJob[] = [];
   let total = 0;
   assessments.forEach((a, i) => {
     if (a.status !== 'assessed') return;
     total++;
     const id = a.characteristic.id;
-    const hit = hits[i]?.entry;
-    if (hit?.scene) sceneBytes.set(id, hit.scene);
+    const hit = hits[i];
+    const scene = hit?.side('scene');
+    if (scene) cachedScenes.set(id, scene);
     else scenes.set(id, layoutChart(chartSpec(a, ws.config.period), metrics));
-    if (hit?.svg && (hit.png || !options.png)) drawn.set(id, { svg: hit.svg, png: hit.png });
-    else jobs.push({ id, scene: sceneOf(id)!, png: options.png });
+    const svg = hit?.side('svg');
+    const png = hit?.side('png');
+    if (svg && (png || !options.png)) {
+      copies.set(chartFile(id), { from: svg.path, ...svg.file });
+      if (options.png && png) copies.set(pngFile(id), { from: png.path, ...png.file });
+    } else jobs.push({ id, scene: sceneOf(id)!, png: options.png });
   });
   lap('scenes');
-  let done = drawn.size;
+  let done = total - jobs.length;
   options.progress?.('charts', done, total);
   // Threads. With two or more, index.md and index.html are written on a worker while this thread
   // lays out the PDF (1,000 characteristics on two cores: 38–43 s → 35 s), and that worker then draws
@@ -253,8 +277,13 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   // Markdown and HTML on the other thread, while this one lays out the PDF. With the cache, a tree
   // without footnotes goes in parts, and the parts an earlier build wrote go as their texts: the
   // worker is sent only the nodes and scenes of the others (a whole plant's were 0.6 s to send).
-  let pagesTree: TextPagesInput['tree'] = { whole: pack.tree };
-  let pageScenes: ReadonlyMap<string, Scene> = scenes;
+  const scenesOf = (ids: Iterable<string>) =>
+    new Map([...ids].flatMap((id) => {
+      const scene = sceneOf(id);
+      return scene ? [[id, scene] as const] : [];
+    }));
+  let pagesTree: TextPagesInput['tree'];
+  let pageScenes: ReadonlyMap<string, Scene>;
   if (options.cache && !hasFootnotes(pack.tree)) {
     const drawnHere = new Set<string>();
     pagesTree = {
@@ -268,10 +297,10 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
         return { nodes };
       }),
     };
-    pageScenes = new Map([...drawnHere].flatMap((id) => {
-      const scene = sceneOf(id);
-      return scene ? [[id, scene] as const] : [];
-    }));
+    pageScenes = scenesOf(drawnHere);
+  } else {
+    pagesTree = { whole: pack.tree };
+    pageScenes = scenesOf(chartIdsIn(pack.tree.children));
   }
   const pagesInput: TextPagesInput = { tree: pagesTree, title: ws.config.title, scenes: pageScenes, ...(svgsOnPagesWorker ? { charts: jobs } : {}) };
   const textPages = pagesWorker ? pagesWorker.run(pagesInput) : writeTextPagesHere(pagesInput);
@@ -302,6 +331,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   if (pagesWorker) lap(svgsOnPagesWorker ? 'markdown, html and svgs (waiting for the worker)' : 'markdown and html (waiting for the worker)');
   if (svgsOnPagesWorker) options.progress?.('charts', total, total);
   options.progress?.('pages', 2, 2);
+  const drawn = new Map<string, { svg: Uint8Array; png: Uint8Array | null }>();
   if (charts) for (const r of await charts) drawn.set(r.id, { svg: encoder.encode(r.svg), png: r.png });
   else for (const r of drawnWithPages) drawn.set(r.id, { svg: r.svg, png: null });
   if (options.png && allowed > 1) lap('charts (waiting for the workers)');
@@ -309,30 +339,62 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     const d = drawn.get(a.characteristic.id);
     if (!d) continue;
     files.set(chartFile(a.characteristic.id), d.svg);
-    if (options.png && d.png) files.set(`charts/${a.characteristic.id}.png`, d.png);
+    if (options.png && d.png) files.set(pngFile(a.characteristic.id), d.png);
   }
   const placed = new Map<string, { readonly bytes: number; readonly sha256: string }>();
   if (summaryFile instanceof Uint8Array) files.set('summary.json', summaryFile);
   else placed.set('summary.json', summaryFile);
   files.set(RECORD_FILE, recordBytes);
-  const outputs = [...entries(files), ...[...placed].map(([p, f]) => ({ path: p, ...f }))].sort((a, b) => comparePaths(a.path, b.path));
+  const outputs = [...entries(files), ...[...placed, ...copies].map(([p, f]) => ({ path: p, bytes: f.bytes, sha256: f.sha256 }))].sort((a, b) => comparePaths(a.path, b.path));
   files.set('manifest.json', json({ tool: TOOL, asOf, fingerprint, inputs, ledger: { ...integrity.chain, rewrites: integrity.rewrites }, outputs }));
   const cache = new Map<string, () => Uint8Array>();
   const cacheKept = new Set<string>();
   if (options.cache) {
+    const shaOf = new Map(outputs.map((o) => [o.path, o.sha256]));
     assessments.forEach((a, i) => {
       // A very long series would cost more to keep (hundreds of megabytes) than to analyse again.
       if (a.status === 'assessed' && a.samples.length > (options.maxCachedPoints ?? MAX_CACHED_POINTS)) return;
-      const hit = hits[i];
-      const d = drawn.get(a.characteristic.id);
-      // An entry read back unchanged is written back as read; a new or grown one (a PNG added) is encoded afresh.
+      const key = keys[i]!;
       const id = a.characteristic.id;
-      const made = scenes.get(id);
-      const scene = sceneBytes.get(id) ?? (made ? encodeStored(made) : null);
-      const kept = hit && (!d || d.png === hit.entry.png || !d.png);
-      const entry = () => encodeEntry({ assessment: a, scene, svg: d?.svg ?? null, png: d?.png ?? null, summary: hit?.entry.summary ?? summaryPiece(i) ?? null });
-      cache.set(entryPath(keys[i]!), kept ? hit.bytes : entry);
-      if (kept) cacheKept.add(entryPath(keys[i]!));
+      const hit = hits[i];
+      // Each side file is kept (linked) as the earlier build left it, or made here; the entry is
+      // written back as read unless a side file was made (a PNG added to a cached chart).
+      const sides: Sides = {};
+      let made = false;
+      const keep = (kind: SideKind): boolean => {
+        const side = hit?.side(kind);
+        if (!side) return false;
+        Object.assign(sides, { [kind]: side.file });
+        cache.set(side.path, () => side.read());
+        cacheKept.add(side.path);
+        return true;
+      };
+      const make = <K extends SideKind>(kind: K, file: NonNullable<Sides[K]>, bytes: () => Uint8Array) => {
+        Object.assign(sides, { [kind]: file });
+        cache.set(sidePath(key, kind), bytes);
+        made = true;
+      };
+      const scene = scenes.get(id);
+      if (!keep('scene') && scene) {
+        const bytes = encodeStored(scene);
+        make('scene', { bytes: bytes.length }, () => bytes);
+      }
+      const part = piece(i);
+      if (!keep('json') && part) make('json', { bytes: part.bytes }, part.read);
+      const d = drawn.get(id);
+      if (d) {
+        make('svg', { bytes: d.svg.length, sha256: shaOf.get(chartFile(id))! }, () => d.svg);
+        const png = d.png;
+        if (png) make('png', { bytes: png.length, sha256: shaOf.get(pngFile(id)) ?? sha256(png) }, () => png);
+      } else {
+        keep('svg');
+        keep('png');
+      }
+      const file = entryPath(key);
+      if (hit && !made) {
+        cache.set(file, hit.bytes);
+        cacheKept.add(file);
+      } else cache.set(file, () => encodeEntry({ assessment: a, sides }));
     });
     // Parts read unchanged are linked; new ones are written. A part's texts are left out when it has
     // none (a tree with footnotes makes index.html whole).
@@ -353,5 +415,5 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   }
   lap('manifest and cache');
   const reused = hits.filter((h) => h !== undefined).length;
-  return { files, placed, cache, cacheKept, cacheUse: { reused, redone: assessments.length - reused }, assessments, diagnostics: packDiagnostics, exitCode };
+  return { files, placed, copies, cache, cacheKept, cacheUse: { reused, redone: assessments.length - reused }, assessments, diagnostics: packDiagnostics, exitCode };
 }

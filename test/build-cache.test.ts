@@ -16,8 +16,9 @@ afterAll(() => rmSync(temp, { recursive: true, force: true }));
 
 const CACHE = '.plumbline-cache';
 const packOnly = (dir: string) => Object.fromEntries(Object.entries(hashTree(dir)).filter(([f]) => !f.startsWith(CACHE)));
-/** Characteristics' entries; the pack's parts are the `pdf-` (laid-out pages) and `text-` (Markdown and HTML) ones. */
-const cacheKeys = (dir: string) => readdirSync(path.join(dir, CACHE)).filter((f) => !f.startsWith('pdf-') && !f.startsWith('text-')).sort();
+/** Characteristics' entries (`<key>.v8`, with side files `<key>.svg`, `.scene`, `.json`); the pack's parts are the `pdf-` (laid-out pages) and `text-` (Markdown and HTML) ones. */
+const cacheKeys = (dir: string) => readdirSync(path.join(dir, CACHE)).filter((f) => /^[0-9a-f]{64}\.v8$/.test(f)).sort();
+const sideFiles = (dir: string) => readdirSync(path.join(dir, CACHE)).filter((f) => /^[0-9a-f]{64}\.(svg|png|scene|json)$/.test(f)).sort();
 const textKeys = (dir: string) => readdirSync(path.join(dir, CACHE)).filter((f) => f.startsWith('text-')).sort();
 const partKeys = (dir: string) => readdirSync(path.join(dir, CACHE)).filter((f) => f.startsWith('pdf-')).sort();
 const json = (r: { out: string }) => JSON.parse(r.out) as { exitCode: number; cache: { reused: number; redone: number } | null };
@@ -47,6 +48,7 @@ describe('the build cache', () => {
     writeFileSync(file, `${rows.join('\n')}\n`);
     const entryFile = (k: string) => path.join(out, CACHE, k);
     const inodes = new Map(keysBefore.map((k) => [k, statSync(entryFile(k)).ino]));
+    const sideInodes = new Map(sideFiles(out).map((f) => [f, statSync(entryFile(f)).ino]));
     // pack.pdf's parts: the cover, contents, decisions, overview, a section per characteristic, cautions and method.
     const partsBefore = partKeys(out);
     expect(partsBefore.length).toBeGreaterThanOrEqual(19 + 4);
@@ -67,6 +69,10 @@ describe('the build cache', () => {
       expect(statSync(entryFile(k)).ino).toBe(inodes.get(k));
       expect(statSync(entryFile(k)).nlink).toBe(1);
     }
+    // Their side files (chart, scene, part of summary.json) too.
+    const sidesKept = sideFiles(out).filter((f) => kept.some((k) => f.startsWith(k.slice(0, 64))));
+    expect(sidesKept.length).toBeGreaterThanOrEqual(18 * 3);
+    for (const f of sidesKept) expect(statSync(entryFile(f)).ino).toBe(sideInodes.get(f));
     const bytesAfter = hashTree(path.join(out, CACHE));
     for (const k of kept) expect(bytesAfter[k]).toBe(bytesBefore[k]);
     // Only the parts whose content changed were laid out again: the changed characteristic's section,
@@ -95,17 +101,51 @@ describe('the build cache', () => {
     const part = partKeys(out)[0]!;
     writeFileSync(path.join(out, CACHE, part), 'not a part');
     const expected = packOnly(out);
+    // An entry whose side file is gone, or not the size it recorded, is redone too.
+    const sides = sideFiles(out);
+    const svgSide = sides.find((f) => f.endsWith('.svg') && !f.startsWith(keys[0]!.slice(0, 64)) && !f.startsWith(keys[1]!.slice(0, 64)))!;
+    const jsonSide = sides.find((f) => f.endsWith('.json') && ![keys[0], keys[1], svgSide].some((k) => f.startsWith(k!.slice(0, 64))))!;
+    rmSync(path.join(out, CACHE, svgSide));
+    writeFileSync(path.join(out, CACHE, jsonSide), '{}');
     const r = json(cli('build', ws, '--out', out, '--previous', before, '--json'));
-    expect(r.cache).toEqual({ reused: 17, redone: 2 });
+    expect(r.cache).toEqual({ reused: 15, redone: 4 });
+    expect(sideFiles(out)).toContain(svgSide);
+    expect(readFileSync(path.join(out, CACHE, jsonSide), 'utf8')).not.toBe('{}');
     expect(packOnly(out)).toEqual(expected);
     // The damaged entries were written afresh, not linked: the next build reads them all.
     expect(readFileSync(path.join(out, CACHE, keys[0]!), 'latin1')).not.toBe('not a cache entry');
     expect(readFileSync(path.join(out, CACHE, part), 'latin1')).not.toBe('not a part');
     expect(json(cli('build', ws, '--out', out, '--previous', before, '--json')).cache).toEqual({ reused: 19, redone: 0 });
     expect(cli('verify', out).code).toBe(0);
+    // The charts were copied from the cache, not linked to it: changing one changes no cache file.
+    for (const f of readdirSync(path.join(out, 'charts'))) expect(statSync(path.join(out, 'charts', f)).nlink).toBe(1);
     // A file put into the pack itself is still caught.
     writeFileSync(path.join(out, 'extra.txt'), 'x');
     expect(cli('verify', out).code).toBe(1);
+  }, 180_000);
+
+  it('adds PNGs to cached charts when a build asks for them, and copies them from the cache after', () => {
+    const src = path.join(ROOT, 'data/demo');
+    const grown = path.join(temp, 'grown');
+    const earlier = path.join(temp, 'grown-earlier');
+    expect(json(cli('build', src, '--out', grown, '--json')).cache).toEqual({ reused: 0, redone: 19 });
+    cpSync(grown, earlier, { recursive: true });
+    expect(sideFiles(grown).filter((f) => f.endsWith('.png'))).toEqual([]);
+    // The cold build with PNGs is the expected pack (itself checked against one thread in 'threads').
+    const cold = path.join(temp, 'grown-cold');
+    expect(cli('build', src, '--out', cold, '--previous', earlier, '--png', '--no-cache', '-q').code).toBe(0);
+    expect(json(cli('build', src, '--out', grown, '--previous', earlier, '--png', '--json')).cache).toEqual({ reused: 19, redone: 0 });
+    expect(packOnly(grown)).toEqual(packOnly(cold));
+    expect(sideFiles(grown).filter((f) => f.endsWith('.png'))).toHaveLength(19);
+    // Again with PNGs: every chart and PNG now comes from the cache, and the entries are linked as they were.
+    const entryInodes = new Map(cacheKeys(grown).map((k) => [k, statSync(path.join(grown, CACHE, k)).ino]));
+    expect(json(cli('build', src, '--out', grown, '--previous', earlier, '--png', '--json')).cache).toEqual({ reused: 19, redone: 0 });
+    expect(packOnly(grown)).toEqual(packOnly(cold));
+    for (const [k, ino] of entryInodes) expect(statSync(path.join(grown, CACHE, k)).ino).toBe(ino);
+    // Without PNGs the pack has none, and the cache keeps them for a later build that asks.
+    expect(cli('build', src, '--out', grown, '--previous', earlier, '-q').code).toBe(0);
+    expect(Object.keys(packOnly(grown)).filter((f) => f.endsWith('.png'))).toEqual([]);
+    expect(sideFiles(grown).filter((f) => f.endsWith('.png'))).toHaveLength(19);
   }, 180_000);
 
   it('writes a pack whose template has a footnote whole, and its rebuild equals a cold build', () => {
@@ -178,9 +218,11 @@ describe('what the cache keeps', () => {
     const ws = loaded.workspace;
     const plan = await planPack(ws, ws.config.period.to, { paper: 'a4', png: false, jobs: 1, cache: () => undefined, maxCachedPoints: 40 });
     const counts = plan.assessments.map((a) => (a.status === 'assessed' ? a.samples.length : 0));
-    // Counted from the assessments themselves: one entry per characteristic of at most 40 points
-    // (the pack's parts, `pdf-` and `text-` entries, are kept whatever their charts' size).
-    const entries = [...plan.cache.keys()].filter((k) => !/^(pdf|text)-/.test(path.basename(k)));
+    // Counted from the assessments themselves: one entry per characteristic of at most 40 points, with
+    // its side files (the pack's parts, `pdf-` and `text-` entries, are kept whatever their charts' size).
+    const entries = [...plan.cache.keys()].filter((k) => /^[0-9a-f]{64}\.v8$/.test(path.basename(k)));
+    const sides = [...plan.cache.keys()].filter((k) => /^[0-9a-f]{64}\.(svg|png|scene|json)$/.test(path.basename(k)));
+    expect(new Set(sides.map((k) => path.basename(k).slice(0, 64)))).toEqual(new Set(entries.map((k) => path.basename(k).slice(0, 64))));
     expect(entries.length).toBe(counts.filter((n) => n <= 40).length);
     expect(entries.length).toBeGreaterThan(0);
     expect(entries.length).toBeLessThan(19);

@@ -191,8 +191,8 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
     throw e;
   }
   progress?.('');
-  writePack(folder, plan.files, plan.cache, plan.cacheKept);
-  if (json) return io.out(resultJson('build', dir, plan.exitCode, plan.diagnostics, plan.assessments, { out: outDir, files: [...plan.files.keys(), ...plan.placed.keys()].sort(), comparedWith: previous?.asOf ?? null, cache: values['no-cache'] === true ? null : plan.cacheUse })), plan.exitCode;
+  writePack(folder, plan.files, plan.cache, plan.cacheKept, plan.copies);
+  if (json) return io.out(resultJson('build', dir, plan.exitCode, plan.diagnostics, plan.assessments, { out: outDir, files: [...plan.files.keys(), ...plan.placed.keys(), ...plan.copies.keys()].sort(), comparedWith: previous?.asOf ?? null, cache: values['no-cache'] === true ? null : plan.cacheUse })), plan.exitCode;
   printDiagnostics(io, plan.diagnostics, quiet);
   const counts = new Map<string, number>();
   for (const a of plan.assessments) {

@@ -1,6 +1,6 @@
 /**
- * The incremental build cache: for each characteristic, its assessment,
- * chart scene, drawn chart and part of summary.json, stored under a key that hashes everything
+ * The incremental build cache: for each characteristic, its assessment
+ * (with its scene, drawn chart and part of summary.json beside it), stored under a key that hashes everything
  * they are computed from. A rebuild after one data file changes finds every
  * other characteristic here and analyses and draws only that one; the pack
  * is then assembled from all of them as in a cold build, so its bytes are
@@ -12,7 +12,7 @@
  * alone, so a stale entry is never used; one that cannot be read is redone.
  */
 import { createHash } from 'node:crypto';
-import { readFileSync } from 'node:fs';
+import { readFileSync, statSync } from 'node:fs';
 import path from 'node:path';
 import { deserialize, serialize } from 'node:v8';
 import type { RootContent } from 'mdast';
@@ -25,22 +25,53 @@ import type { CharacteristicInput, Workspace } from '../workspace/load.ts';
 
 export const CACHE_DIR = '.plumbline-cache';
 /** Bump when what an entry holds, or how it is computed, changes without a tool version change. */
-const FORMAT = 4;
+const FORMAT = 5;
+
+/**
+ * What is kept beside an entry, each in a file of its own that a rebuild
+ * reads only if it must: the chart's SVG and PNG (copied into the pack as
+ * they are), its scene (serialised: read where a page that draws it is made
+ * again) and its part of summary.json (an item of its `characteristics`, as
+ * written). A plant's entries were 235 MB read whole, for each rebuild.
+ */
+export const SIDE_KINDS = ['svg', 'png', 'scene', 'json'] as const;
+export type SideKind = (typeof SIDE_KINDS)[number];
+
+/** A side file's size. */
+export interface SizedFile {
+  readonly bytes: number;
+}
+
+/** A side file copied into the pack as it is: its size and SHA-256 go into the manifest. */
+export interface HashedFile extends SizedFile {
+  readonly sha256: string;
+}
+
+/** The side files kept, by kind: no scene or chart for a characteristic that could not be assessed, no PNG unless a build asked for one. */
+export interface Sides {
+  svg?: HashedFile;
+  png?: HashedFile;
+  scene?: SizedFile;
+  json?: SizedFile;
+}
 
 export interface CacheEntry {
   readonly assessment: Assessment;
-  /**
-   * The chart's scene, serialised on its own (encodeStored): read only
-   * where a page that draws it is made again. Null for a characteristic
-   * that could not be assessed.
-   */
-  readonly scene: Uint8Array | null;
-  /** The standalone SVG file's bytes. */
-  readonly svg: Uint8Array | null;
-  /** Drawn only by builds that asked for PNGs; drawn from `svg` when a later build asks. */
-  readonly png: Uint8Array | null;
-  /** The characteristic's part of summary.json as written (an item of its `characteristics`), or null if not kept. */
-  readonly summary: Uint8Array | null;
+  readonly sides: Readonly<Sides>;
+}
+
+/** A side file of a cache hit: where it is (relative to the pack folder), its record, and its bytes when read. */
+export interface Side<F extends SizedFile = SizedFile> {
+  readonly path: string;
+  readonly file: F;
+  read(): Uint8Array;
+}
+
+export interface CacheHit {
+  readonly entry: CacheEntry;
+  /** The entry file's bytes (read again only if the file cannot be linked). */
+  readonly bytes: () => Uint8Array;
+  readonly side: <K extends SideKind>(kind: K) => Side<NonNullable<Sides[K]>> | undefined;
 }
 
 /**
@@ -59,6 +90,7 @@ export function cacheKey(ws: Workspace, input: CharacteristicInput, asOf: IsoDat
 }
 
 export const entryPath = (key: string) => `${CACHE_DIR}/${key}.v8`;
+export const sidePath = (key: string, kind: SideKind) => `${CACHE_DIR}/${key}.${kind}`;
 
 /** What the cache keeps, as its file's bytes (V8's serialisation, read back by openStored). */
 export const encodeStored = (value: unknown): Uint8Array => new Uint8Array(serialize(value));
@@ -94,16 +126,51 @@ function openStored<T>(packDir: string, pathOf: (key: string) => string, valid: 
   };
 }
 
-const isEntry = (e: unknown): e is CacheEntry =>
-  typeof e === 'object' && e !== null && typeof (e as CacheEntry).assessment === 'object' &&
-  ((e as CacheEntry).scene === null || (e as CacheEntry).scene instanceof Uint8Array) && ((e as CacheEntry).summary === null || (e as CacheEntry).summary instanceof Uint8Array);
+const isSideFile = (kind: string, f: unknown): boolean =>
+  typeof f === 'object' && f !== null && Number.isSafeInteger((f as SizedFile).bytes) && (kind === 'scene' || kind === 'json' || typeof (f as HashedFile).sha256 === 'string');
 
-/** The characteristics' entries an earlier build left in `packDir`. */
-export function openCache(packDir: string): (key: string) => { entry: CacheEntry; bytes: () => Uint8Array } | undefined {
+const isEntry = (e: unknown): e is CacheEntry =>
+  typeof e === 'object' &&
+  e !== null &&
+  typeof (e as CacheEntry).assessment === 'object' &&
+  typeof (e as CacheEntry).sides === 'object' &&
+  (e as CacheEntry).sides !== null &&
+  Object.entries((e as CacheEntry).sides).every(([kind, f]) => (SIDE_KINDS as readonly string[]).includes(kind) && isSideFile(kind, f));
+
+/**
+ * The characteristics' entries an earlier build left in `packDir`. An entry
+ * is a hit only if every side file it names is there at its size; a side
+ * file that then cannot be read is an error (the cache changed during the
+ * build), not a wrong pack.
+ */
+export function openCache(packDir: string): (key: string) => CacheHit | undefined {
   const read = openStored(packDir, entryPath, isEntry);
   return (key) => {
     const hit = read(key);
-    return hit && { entry: hit.value, bytes: hit.bytes };
+    if (!hit) return undefined;
+    const sides = hit.value.sides;
+    for (const [kind, file] of Object.entries(sides) as [SideKind, SizedFile][]) {
+      try {
+        if (statSync(path.join(packDir, sidePath(key, kind))).size !== file.bytes) return undefined;
+      } catch {
+        return undefined;
+      }
+    }
+    const side = <K extends SideKind>(kind: K): Side<NonNullable<Sides[K]>> | undefined => {
+      const file = sides[kind] as NonNullable<Sides[K]> | undefined;
+      if (!file) return undefined;
+      const at = sidePath(key, kind);
+      return {
+        path: at,
+        file,
+        read: () => {
+          const bytes = new Uint8Array(readFileSync(path.join(packDir, at)));
+          if (bytes.length !== file.bytes) throw new Error(`${path.join(packDir, at)} changed during the build; build again`);
+          return bytes;
+        },
+      };
+    };
+    return { entry: hit.value, bytes: hit.bytes, side };
   };
 }
 

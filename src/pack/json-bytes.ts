@@ -12,11 +12,12 @@ const CHUNK = 1 << 20;
 /**
  * A value already written: the bytes this module writes for it at the
  * indentation `indent` (kept from an earlier build), put into the document
- * as they are. Only valid where the value would be written at `indent`.
+ * as they are, and read only when they are reached if given as a function.
+ * Only valid where the value would be written at `indent`.
  */
 export class WrittenJson {
   constructor(
-    readonly bytes: Uint8Array,
+    readonly bytes: Uint8Array | (() => Uint8Array),
     readonly indent: string,
   ) {}
 }
@@ -164,7 +165,7 @@ function documentChunks(value: unknown, layout: JsonLayout, chunk: number, out: 
       if (buffer.length >= chunk) flush();
     } else if (p instanceof WrittenJson) {
       flush();
-      out.bytes(p.bytes);
+      out.bytes(typeof p.bytes === 'function' ? p.bytes() : p.bytes);
     } else {
       flush();
       p.here(out.offset());

@@ -4,7 +4,7 @@
  * reader never sees half a pack and a failed build leaves the previous one.
  */
 import { createHash } from 'node:crypto';
-import { closeSync, existsSync, linkSync, mkdirSync, openSync, readSync, readdirSync, renameSync, rmSync, statSync, writeFileSync, writeSync } from 'node:fs';
+import { closeSync, copyFileSync, existsSync, linkSync, mkdirSync, openSync, readSync, readdirSync, renameSync, rmSync, statSync, writeFileSync, writeSync } from 'node:fs';
 import path from 'node:path';
 
 export class OutputRefused extends Error {}
@@ -147,7 +147,9 @@ export function fileSink(folder: PackFolder, name: string): FileSink {
 
 /**
  * Writes the planned files into the build's folder, which then replaces
- * --out. Files already made there (summary.json, through a FileSink) stay.
+ * --out. Files already made there (summary.json, through a FileSink) stay;
+ * `copies` are output files copied from a file of the current --out (charts
+ * the build cache kept).
  * `extra`: files that go into the folder but are not the pack (the build
  * cache). Those named in `kept` hold the same bytes as the file of that name
  * in the current --out, and are hard-linked from it where the file system
@@ -160,6 +162,7 @@ export function writePack(
   files: ReadonlyMap<string, Uint8Array>,
   extra: ReadonlyMap<string, () => Uint8Array> = new Map(),
   kept: ReadonlySet<string> = new Set(),
+  copies: ReadonlyMap<string, { readonly from: string }> = new Map(),
 ): void {
   const { out, temp, old } = folder;
   try {
@@ -185,6 +188,12 @@ export function writePack(
       }
     };
     for (const [name, bytes] of files) put(name, bytes);
+    // Copied, not linked: a pack's file and the cache's must not be one file that an edit to either changes.
+    for (const [name, { from }] of copies) {
+      const target = path.join(temp, name);
+      folderFor(target);
+      copyFileSync(path.join(out, from), target);
+    }
     for (const [name, make] of extra) if (!(kept.has(name) && linked(name))) put(name, make());
     const hadOld = existsSync(out);
     if (hadOld) renameSync(out, old);

@@ -8,7 +8,7 @@ import { deserialize } from 'node:v8';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { planPack } from '../../src/build.ts';
-import type { CacheEntry } from '../../src/pack/build-cache.ts';
+import { type CacheEntry, type CacheHit, type SideKind, sidePath } from '../../src/pack/build-cache.ts';
 import { loadWorkspace } from '../../src/workspace/load.ts';
 import { ROOT } from '../helpers/cli.ts';
 
@@ -53,15 +53,39 @@ describe('summary.json through a sink', () => {
     const first = await planPack(ws, '2026-11-30', { ...options, cache: () => undefined });
     const bytes = Buffer.from(first.files.get('summary.json')!);
     const parsed = JSON.parse(bytes.toString('utf8')) as { characteristics: { id: string }[] };
-    const entries = new Map([...first.cache].filter(([p]) => !/\/(pdf|text)-/.test(p)).map(([p, made]) => [p.replace(/^.*\//, '').replace(/\.v8$/, ''), deserialize(made()) as CacheEntry]));
+    const entryFile = /^\.plumbline-cache\/([0-9a-f]{64})\.v8$/;
+    const entries = new Map([...first.cache].flatMap(([p, made]) => {
+      const m = entryFile.exec(p);
+      return m ? [[m[1]!, deserialize(made()) as CacheEntry] as const] : [];
+    }));
     expect(entries.size).toBe(19);
+    const side = (key: string, kind: SideKind) => first.cache.get(sidePath(key, kind))!();
     // Each entry's part is one item of summary.json's characteristics, as that file has it, and appears in it as is.
-    const items = [...entries.values()].map((e) => JSON.parse(Buffer.from(e.summary!).toString('utf8')));
+    const items = [...entries.keys()].map((k) => JSON.parse(Buffer.from(side(k, 'json')).toString('utf8')));
     expect(items.sort(byId)).toEqual([...parsed.characteristics].sort(byId));
-    for (const e of entries.values()) expect(bytes.includes(Buffer.from(e.summary!))).toBe(true);
-    // Built again from the entries alone: the same summary.json, every part taken from the cache.
-    const again = await planPack(ws, '2026-11-30', { ...options, cache: (key) => (entries.has(key) ? { entry: entries.get(key)!, bytes: () => new Uint8Array() } : undefined) });
+    for (const k of entries.keys()) expect(bytes.includes(Buffer.from(side(k, 'json')))).toBe(true);
+    // Built again from the entries alone: the same summary.json, every part taken from the cache, and
+    // the charts copied from it with the size and SHA-256 of the first build's files (hashed here).
+    const again = await planPack(ws, '2026-11-30', {
+      ...options,
+      cache: (key) => {
+        const entry = entries.get(key);
+        if (!entry) return undefined;
+        const sides = entry.sides as Record<SideKind, { bytes: number; sha256?: string } | undefined>;
+        const hit = (kind: SideKind) => (sides[kind] ? { path: sidePath(key, kind), file: sides[kind], read: () => side(key, kind) } : undefined);
+        return { entry, bytes: () => new Uint8Array(), side: hit } as CacheHit;
+      },
+    });
     expect(again.cacheUse).toEqual({ reused: 19, redone: 0 });
     expect(Buffer.from(again.files.get('summary.json')!).equals(bytes)).toBe(true);
+    const charts = [...first.files].filter(([p]) => p.startsWith('charts/'));
+    expect(charts).toHaveLength(19);
+    expect([...again.files.keys()].filter((p) => p.startsWith('charts/'))).toEqual([]);
+    for (const [p, b] of charts) {
+      const copy = again.copies.get(p)!;
+      expect({ bytes: copy.bytes, sha256: copy.sha256 }).toEqual({ bytes: b.length, sha256: createHash('sha256').update(b).digest('hex') });
+      expect(Buffer.from(first.cache.get(copy.from)!()).equals(Buffer.from(b))).toBe(true);
+    }
+    expect(Buffer.from(again.files.get('manifest.json')!).equals(Buffer.from(first.files.get('manifest.json')!))).toBe(true);
   }, 60_000);
 });
