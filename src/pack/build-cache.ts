@@ -164,7 +164,7 @@ export function openCache(packDir: string): (key: string) => CacheHit | undefine
         path: at,
         file,
         read: () => {
-          const bytes = new Uint8Array(readFileSync(path.join(packDir, at)));
+          const bytes: Uint8Array = readFileSync(path.join(packDir, at));
           if (bytes.length !== file.bytes) throw new Error(`${path.join(packDir, at)} changed during the build; build again`);
           return bytes;
         },
