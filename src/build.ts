@@ -263,7 +263,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   // The tree's parts (each level-2 section) are kept in the cache, pages, Markdown and HTML, by a key
   // over their nodes and the keys of their charts' characteristics (whose scenes they draw).
   const parts = splitParts(pack.tree);
-  const keyOfChart = new Map(options.cache ? ws.characteristics.map((c, i) => [c.characteristic.id, keys[i]!] as const) : []);
+  const keyOfChart = new Map(options.cache ? ws.characteristics.map((c, i) => [c.configured.id, keys[i]!] as const) : []);
   const partKeys = options.cache
     ? parts.map((nodes) => {
         const charts = nodes.flatMap((n) => {

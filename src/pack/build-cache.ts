@@ -76,16 +76,18 @@ export interface CacheHit {
 
 /**
  * The key of one characteristic: the tool, the review settings, the date,
- * the characteristic's settings, its ledger entries (with their lines, which
- * its messages quote), what reading it reported and its data file's bytes.
+ * the characteristic as configured, its ledger entries (with their lines,
+ * which its messages quote) and what reading the ledger reported of it, and
+ * its data file's bytes (or why it could not be read). Everything read from
+ * the data is a function of these, so a hit never needs the data parsed.
  */
 export function cacheKey(ws: Workspace, input: CharacteristicInput, asOf: IsoDate): string {
   const { characteristics: _all, ...settings } = ws.config;
   const h = createHash('sha256');
-  h.update(JSON.stringify([FORMAT, TOOL, asOf, settings, input.characteristic, input.ledger, input.diagnostics, [...input.laterLabels]]));
+  const data = 'bytes' in input.data ? null : input.data.problem;
+  h.update(JSON.stringify([FORMAT, TOOL, asOf, settings, input.configured, input.ledger, input.ledgerDiagnostics, data]));
   h.update('\u0000');
-  const data = ws.inputs.get(input.characteristic.data);
-  if (data) h.update(data);
+  if ('bytes' in input.data) h.update(input.data.bytes);
   return h.digest('hex');
 }
 

@@ -15,11 +15,23 @@ import type { Templates } from '../pack/template.ts';
 import { readTemplates } from './templates.ts';
 
 export interface CharacteristicInput {
+  /** As review.yaml configures it (before `chart: auto` is decided from the data). */
+  readonly configured: ConfiguredCharacteristic;
+  readonly ledger: readonly LedgerEntry[];
+  /** What reading the ledger reported about this characteristic. */
+  readonly ledgerDiagnostics: readonly Diagnostic[];
+  /** The data file's bytes, or why it could not be read. */
+  readonly data: { readonly bytes: Uint8Array } | { readonly problem: string };
+  /**
+   * The rest is read from the data on first use, and is a function of the
+   * fields above and the review settings alone (the build cache's key hashes
+   * those): a rebuild never parses the data of a characteristic it finds in
+   * its cache, which was most of reading a plant.
+   */
   readonly characteristic: Characteristic;
   /** Samples through the end of the review period. */
   readonly samples: readonly Sample[];
   readonly laterLabels: ReadonlySet<string>;
-  readonly ledger: readonly LedgerEntry[];
   readonly diagnostics: readonly Diagnostic[];
 }
 
@@ -42,17 +54,44 @@ export type LoadResult =
 /** Files larger than this are refused rather than read into memory. */
 export const MAX_INPUT_BYTES = 512 * 1024 * 1024;
 
-function readText(file: string): { text?: string; bytes?: Uint8Array; problem?: string } {
+function readBytes(file: string): { bytes: Uint8Array; problem?: undefined } | { bytes?: undefined; problem: string } {
   try {
     const st = statSync(file);
     if (st.isDirectory()) return { problem: 'is a folder, not a file' };
     if (st.size > MAX_INPUT_BYTES) return { problem: `is ${st.size} bytes; files above ${MAX_INPUT_BYTES} bytes are refused` };
-    const bytes = readFileSync(file);
-    return { bytes, text: new TextDecoder('utf-8', { fatal: false }).decode(bytes) };
+    return { bytes: readFileSync(file) };
   } catch (e) {
     const code = (e as NodeJS.ErrnoException).code;
     return { problem: code === 'ENOENT' ? 'does not exist' : code === 'EACCES' ? 'cannot be read (permission denied)' : `cannot be read (${code ?? String(e)})` };
   }
+}
+
+function readText(file: string): { text?: string; bytes?: Uint8Array; problem?: string } {
+  const read = readBytes(file);
+  return read.bytes ? { bytes: read.bytes, text: new TextDecoder('utf-8', { fatal: false }).decode(read.bytes) } : { problem: read.problem };
+}
+
+type ReadFromData = Pick<CharacteristicInput, 'characteristic' | 'samples' | 'laterLabels' | 'diagnostics'>;
+
+/** A characteristic's input whose data is read when one of its fields from the data is first asked for. */
+function onFirstUse(fixed: Omit<CharacteristicInput, keyof ReadFromData>, read: () => ReadFromData): CharacteristicInput {
+  let done: ReadFromData | undefined;
+  const get = () => (done ??= read());
+  return {
+    ...fixed,
+    get characteristic() {
+      return get().characteristic;
+    },
+    get samples() {
+      return get().samples;
+    },
+    get laterLabels() {
+      return get().laterLabels;
+    },
+    get diagnostics() {
+      return get().diagnostics;
+    },
+  };
 }
 
 /** A characteristic whose data could not be read: `chart: auto` stays undecided and is shown as a c chart. */
@@ -132,24 +171,27 @@ export function loadWorkspace(dir: string, options: LoadOptions = {}): LoadResul
     else ledgerOf.set(e.characteristic, [e]);
   }
   const characteristics = config.characteristics.map((c): CharacteristicInput => {
-    const file = readText(path.join(root, c.data));
-    const own = [...(perLedger.get(c.id) ?? [])];
-    const entries = ledgerOf.get(c.id) ?? [];
-    if (file.text === undefined) {
-      own.unshift(error('data/unreadable', { file: c.data, characteristic: c.id }, `Data file ${c.data} ${file.problem}.`));
-      return { characteristic: unresolved(c), samples: [], laterLabels: new Set(), ledger: entries, diagnostics: own };
+    const file = readBytes(path.join(root, c.data));
+    const ledgerDiagnostics = perLedger.get(c.id) ?? [];
+    const fixed = { configured: c, ledger: ledgerOf.get(c.id) ?? [], ledgerDiagnostics };
+    if (file.bytes === undefined) {
+      const diagnostics = [error('data/unreadable', { file: c.data, characteristic: c.id }, `Data file ${c.data} ${file.problem}.`), ...ledgerDiagnostics];
+      return { ...fixed, data: { problem: file.problem }, characteristic: unresolved(c), samples: [], laterLabels: new Set(), diagnostics };
     }
-    inputs.set(c.data, file.bytes!);
-    const read = readDataFile(file.text, c, config.period.to);
-    own.unshift(...read.diagnostics);
-    const inside = read.samples.filter((s) => s.date <= config.period.to);
-    const later = read.samples.filter((s) => s.date > config.period.to);
-    if (later.length > 0) {
-      own.push(
-        info('data/after-period', { file: c.data, line: later[0]!.line, characteristic: c.id }, `${later.length} point${later.length === 1 ? '' : 's'} dated after the review period (${config.period.to}) ${later.length === 1 ? 'is' : 'are'} left for a later review.`),
-      );
-    }
-    return { characteristic: read.characteristic, samples: inside, laterLabels: new Set(later.map((s) => s.label)), ledger: entries, diagnostics: own };
+    inputs.set(c.data, file.bytes);
+    const bytes = file.bytes;
+    return onFirstUse({ ...fixed, data: { bytes } }, () => {
+      const read = readDataFile(new TextDecoder('utf-8', { fatal: false }).decode(bytes), c, config.period.to);
+      const inside = read.samples.filter((s) => s.date <= config.period.to);
+      const later = read.samples.filter((s) => s.date > config.period.to);
+      const own = [...read.diagnostics, ...ledgerDiagnostics];
+      if (later.length > 0) {
+        own.push(
+          info('data/after-period', { file: c.data, line: later[0]!.line, characteristic: c.id }, `${later.length} point${later.length === 1 ? '' : 's'} dated after the review period (${config.period.to}) ${later.length === 1 ? 'is' : 'are'} left for a later review.`),
+        );
+      }
+      return { characteristic: read.characteristic, samples: inside, laterLabels: new Set(later.map((s) => s.label)), diagnostics: own };
+    });
   });
 
   const templates = readTemplates(root);

@@ -14,16 +14,16 @@ export interface Selection {
 
 /** Every tag in use, sorted, for the message when a tag matches nothing. */
 export function tagsOf(ws: Workspace): string[] {
-  return [...new Set(ws.characteristics.flatMap((c) => c.characteristic.tags))].sort();
+  return [...new Set(ws.characteristics.flatMap((c) => c.configured.tags))].sort();
 }
 
 /** Null when no characteristic carries the tag. */
 export function selectByTag(ws: Workspace, tag: string): Selection | null {
-  const kept = ws.characteristics.filter((c) => c.characteristic.tags.includes(tag));
+  const kept = ws.characteristics.filter((c) => c.configured.tags.includes(tag));
   if (kept.length === 0) return null;
-  const dropped = new Set(ws.characteristics.filter((c) => !kept.includes(c)).map((c) => c.characteristic.data));
-  for (const c of kept) dropped.delete(c.characteristic.data);
-  const ids = new Set(kept.map((c) => c.characteristic.id));
+  const dropped = new Set(ws.characteristics.filter((c) => !kept.includes(c)).map((c) => c.configured.data));
+  for (const c of kept) dropped.delete(c.configured.data);
+  const ids = new Set(kept.map((c) => c.configured.id));
   return {
     workspace: {
       ...ws,

@@ -66,7 +66,17 @@ describe('summary.json through a sink', () => {
     for (const k of entries.keys()) expect(bytes.includes(Buffer.from(side(k, 'json')))).toBe(true);
     // Built again from the entries alone: the same summary.json, every part taken from the cache, and
     // the charts copied from it with the size and SHA-256 of the first build's files (hashed here).
-    const again = await planPack(ws, '2026-11-30', {
+    // And without reading a cached characteristic's data: every field read from it throws here.
+    const untouched = {
+      ...ws,
+      characteristics: ws.characteristics.map((c) => {
+        const refuse = (): never => {
+          throw new Error(`the data of ${c.configured.id} was read`);
+        };
+        return { configured: c.configured, ledger: c.ledger, ledgerDiagnostics: c.ledgerDiagnostics, data: c.data, get characteristic() { return refuse(); }, get samples() { return refuse(); }, get laterLabels() { return refuse(); }, get diagnostics() { return refuse(); } };
+      }),
+    };
+    const again = await planPack(untouched, '2026-11-30', {
       ...options,
       cache: (key) => {
         const entry = entries.get(key);
