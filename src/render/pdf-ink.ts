@@ -59,12 +59,14 @@ const NONE: Encoded['shaped'] = [];
  * (Identity-H), the glyphs of the font's layout of the text, as pdf-lib's
  * whole-font embedder encodes it; with the glyphs that only shaping made
  * and the text each stands for. The same axis labels, dates and table
- * words come back thousands of times, so short strings are remembered.
+ * words come back thousands of times, so short strings are remembered, and
+ * any string the caller knows will repeat (`repeats`: a page footer).
  */
-export function glyphHex(font: FontkitFont, text: string): Encoded {
+export function glyphHex(font: FontkitFont, text: string, repeats = false): Encoded {
   let known = encodings.get(font);
   if (!known) encodings.set(font, (known = new Map()));
-  let e = text.length <= ENCODE_CACHED_CHARS ? known.get(text) : undefined;
+  const keep = repeats || text.length <= ENCODE_CACHED_CHARS;
+  let e = keep ? known.get(text) : undefined;
   if (e === undefined) {
     const laid = shape(font, text);
     const glyphs = laid.run.glyphs;
@@ -98,7 +100,7 @@ export function glyphHex(font: FontkitFont, text: string): Encoded {
       if (g.id !== 0 && t !== '' && mapped.get(g.id) !== t) (shaped ??= []).push([g.id, t]);
     }
     e = { hex: `<${parts.join('')}>`, shaped: shaped ?? NONE };
-    if (text.length <= ENCODE_CACHED_CHARS) known.set(text, e);
+    if (keep) known.set(text, e);
   }
   return e;
 }
@@ -127,8 +129,9 @@ export class SheetInk {
   readonly shaped = new Map<string, Map<number, string>>();
 
   /** One line of text with its baseline starting at (x, y). */
-  text(text: string, x: number, y: number, size: number, face: Face, color: RGB): void {
-    const e = glyphHex(face.font, text);
+  /** `repeats`: the same text is drawn on many sheets (see glyphHex). */
+  text(text: string, x: number, y: number, size: number, face: Face, color: RGB, repeats = false): void {
+    const e = glyphHex(face.font, text, repeats);
     if (e.shaped.length) {
       let m = this.shaped.get(face.key);
       if (!m) this.shaped.set(face.key, (m = new Map()));
