@@ -20,7 +20,7 @@ import { chartSpec } from './render/scene/spec.ts';
 import { createTextMetrics } from './render/scene/text-metrics.ts';
 import type { Scene } from './render/scene/types.ts';
 import { type ChartJob, defaultJobs, drawCharts } from './render/pool/chart-pool.ts';
-import { type CacheHit, type Side, type SideKind, type Sides, type Stored, cacheKey, encodeEntry, encodeStored, entryPath, partKey, partPath, sidePath, textPath } from './pack/build-cache.ts';
+import { type CacheHit, SUMMARY_INDEX, type Side, type SideKind, type Sides, type Stored, type SummaryIndex, type SummaryPieces, cacheKey, encodeEntry, encodeStored, entryPath, partKey, partPath, sidePath, textPath } from './pack/build-cache.ts';
 import { chartIdOf, chartIdsIn, hasFootnotes } from './pack/mdast.ts';
 import { splitParts } from './pack/parts.ts';
 import { RECORD_FILE, type SummaryLike, compareSummaries, comparisonRecord } from './review/since.ts';
@@ -79,6 +79,8 @@ export interface PackOptions {
   readonly cache?: (key: string) => CacheHit | undefined;
   /** Laid-out parts of an earlier build's pack.pdf, by part key (read only when `cache` is given). */
   readonly partCache?: Stored<LaidOutPart>;
+  /** The parts of an earlier build's summary.json, by cache key (read only when `cache` is given). */
+  readonly summaryPieces?: SummaryPieces;
   /** The parts' index.md and index.html texts of an earlier build, by part key (read only when `cache` is given). */
   readonly textCache?: Stored<PartText>;
 }
@@ -124,32 +126,23 @@ function summarise(ws: Workspace, asOf: IsoDate, options: PackOptions, known: (i
   const record = comparisonRecord(summary);
   const since = options.previous ? compareSummaries(options.previous, record) : undefined;
   // A characteristic's part of summary.json is a function of what its cache key hashes: one from the
-  // cache goes in as the bytes an earlier build wrote (a plant's 86 MB took 1.6 s to write afresh);
-  // the others are marked, so that their bytes can be kept in turn.
+  // cache goes in as the bytes the earlier pack's summary.json has (a plant's 86 MB took 1.6 s to
+  // write afresh). Every part is marked, so that the next build finds it in this one's.
   const ranges: (readonly [number, number])[] = [];
   const characteristics = summary.characteristics.map((c, i) => {
     const bytes = written(i);
-    return bytes ? new WrittenJson(bytes, CHARACTERISTIC_INDENT) : new MarkedJson(c, (start, end) => (ranges[i] = [start, end]));
+    return new MarkedJson(bytes ? new WrittenJson(bytes, CHARACTERISTIC_INDENT) : c, (start, end) => (ranges[i] = [start, end]));
   });
   const document = { ...summary, characteristics };
   let summaryFile: Uint8Array | { readonly bytes: number; readonly sha256: string };
-  let readBack: (start: number, end: number) => Uint8Array;
   if (options.summarySink) {
     const sink = options.summarySink();
     jsonChunks(document, SUMMARY_LAYOUT, (b) => sink.write(b));
     summaryFile = sink.close();
-    readBack = (start, end) => sink.readBack(start, end);
   } else {
-    const bytes = json(document, SUMMARY_LAYOUT);
-    summaryFile = bytes;
-    readBack = (start, end) => bytes.slice(start, end);
+    summaryFile = json(document, SUMMARY_LAYOUT);
   }
-  /** A characteristic's part of summary.json as written here: its size, and its bytes when read back. */
-  const piece = (i: number) => {
-    const range = ranges[i];
-    return range && { bytes: range[1] - range[0], read: () => readBack(...range) };
-  };
-  return { ...rest, summaryFile, summaryPiece: piece, recordBytes: json(record), since };
+  return { ...rest, summaryFile, summaryRanges: ranges, recordBytes: json(record), since };
 }
 
 export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOptions = DEFAULT_OPTIONS): Promise<PlannedPack> {
@@ -175,15 +168,12 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   };
   const keys = options.cache ? ws.characteristics.map((c) => cacheKey(ws, c, asOf)) : [];
   const hits = keys.map((k) => options.cache?.(k));
-  const { assessments, diagnostics, integrity, exitCode, summaryFile, summaryPiece: piece, recordBytes, since } = summarise(
+  const { assessments, diagnostics, integrity, exitCode, summaryFile, summaryRanges, recordBytes, since } = summarise(
     ws,
     asOf,
     options,
     (i) => hits[i]?.entry.assessment,
-    (i) => {
-      const side = hits[i]?.side('json');
-      return side && (() => side.read());
-    },
+    (i) => (hits[i] ? options.summaryPieces?.(keys[i]!) : undefined),
   );
   lap('analysis and summary.json');
   // Markdown and HTML go to another thread when the build may use two. It starts now, so that it
@@ -379,8 +369,6 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
         const bytes = encodeStored(scene);
         make('scene', { bytes: bytes.length }, () => bytes);
       }
-      const part = piece(i);
-      if (!keep('json') && part) make('json', { bytes: part.bytes }, part.read);
       const d = drawn.get(id);
       if (d) {
         make('svg', { bytes: d.svg.length, sha256: shaOf.get(chartFile(id))! }, () => d.svg);
@@ -396,6 +384,10 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
         cacheKept.add(file);
       } else cache.set(file, () => encodeEntry({ assessment: a, sides }));
     });
+    // Where each cached characteristic's part of summary.json is, for the next build.
+    const pieces = new Map(keys.flatMap((key, i) => (summaryRanges[i] && cache.has(entryPath(key)) ? [[key, summaryRanges[i]] as const] : [])));
+    const summaryBytes = summaryFile instanceof Uint8Array ? { bytes: summaryFile.length, sha256: sha256(summaryFile) } : summaryFile;
+    cache.set(SUMMARY_INDEX, () => encodeStored({ bytes: summaryBytes.bytes, sha256: summaryBytes.sha256, pieces } satisfies SummaryIndex));
     // Parts read unchanged are linked; new ones are written. A part's texts are left out when it has
     // none (a tree with footnotes makes index.html whole).
     const texts = new Map(fresh);

@@ -4,7 +4,7 @@
  * reader never sees half a pack and a failed build leaves the previous one.
  */
 import { createHash } from 'node:crypto';
-import { closeSync, copyFileSync, existsSync, linkSync, mkdirSync, openSync, readSync, readdirSync, renameSync, rmSync, statSync, writeFileSync, writeSync } from 'node:fs';
+import { closeSync, copyFileSync, existsSync, linkSync, mkdirSync, openSync, readdirSync, renameSync, rmSync, statSync, writeFileSync, writeSync } from 'node:fs';
 import path from 'node:path';
 
 export class OutputRefused extends Error {}
@@ -108,8 +108,6 @@ export function discardPackFolder(folder: PackFolder): void {
 export interface FileSink {
   write(bytes: Uint8Array): void;
   close(): { readonly bytes: number; readonly sha256: string };
-  /** Bytes `start` to `end` of what was written, read back from the file once it is closed. */
-  readBack(start: number, end: number): Uint8Array;
 }
 
 export function fileSink(folder: PackFolder, name: string): FileSink {
@@ -127,20 +125,6 @@ export function fileSink(folder: PackFolder, name: string): FileSink {
     close() {
       closeSync(fd);
       return { bytes, sha256: hash.digest('hex') };
-    },
-    readBack(start, end) {
-      const out = new Uint8Array(end - start);
-      const back = openSync(target, 'r');
-      try {
-        for (let done = 0; done < out.length; ) {
-          const n = readSync(back, out, done, out.length - done, start + done);
-          if (n === 0) throw new Error(`internal: ${name} is shorter than ${end} bytes`);
-          done += n;
-        }
-      } finally {
-        closeSync(back);
-      }
-      return out;
     },
   };
 }

@@ -8,7 +8,7 @@ import { deserialize } from 'node:v8';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { planPack } from '../../src/build.ts';
-import { type CacheEntry, type CacheHit, type SideKind, sidePath } from '../../src/pack/build-cache.ts';
+import { type CacheEntry, type CacheHit, SUMMARY_INDEX, type SideKind, type SummaryIndex, sidePath } from '../../src/pack/build-cache.ts';
 import { loadWorkspace } from '../../src/workspace/load.ts';
 import { ROOT } from '../helpers/cli.ts';
 
@@ -32,7 +32,6 @@ describe('summary.json through a sink', () => {
         return {
           write: (b) => (parts.push(Buffer.from(b)), hash.update(b), (bytes += b.length)),
           close: () => ({ bytes, sha256: hash.digest('hex') }),
-          readBack: (start, end) => new Uint8Array(Buffer.concat(parts).subarray(start, end)),
         };
       },
     });
@@ -60,12 +59,17 @@ describe('summary.json through a sink', () => {
     }));
     expect(entries.size).toBe(19);
     const side = (key: string, kind: SideKind) => first.cache.get(sidePath(key, kind))!();
-    // Each entry's part is one item of summary.json's characteristics, as that file has it, and appears in it as is.
-    const items = [...entries.keys()].map((k) => JSON.parse(Buffer.from(side(k, 'json')).toString('utf8')));
+    // The index names each entry's part of summary.json: one item of its characteristics, as that file has it.
+    const index = deserialize(first.cache.get(SUMMARY_INDEX)!()) as SummaryIndex;
+    expect(index.bytes).toBe(bytes.length);
+    expect(index.sha256).toBe(createHash('sha256').update(bytes).digest('hex'));
+    expect([...index.pieces.keys()].sort()).toEqual([...entries.keys()].sort());
+    const piece = (key: string) => bytes.subarray(...index.pieces.get(key)!);
+    const items = [...entries.keys()].map((k) => JSON.parse(piece(k).toString('utf8')));
     expect(items.sort(byId)).toEqual([...parsed.characteristics].sort(byId));
-    for (const k of entries.keys()) expect(bytes.includes(Buffer.from(side(k, 'json')))).toBe(true);
     // Built again from the entries alone: the same summary.json, every part taken from the cache, and
     // the charts copied from it with the size and SHA-256 of the first build's files (hashed here).
+    let piecesRead = 0;
     // And without reading a cached characteristic's data: every field read from it throws here.
     const untouched = {
       ...ws,
@@ -78,6 +82,7 @@ describe('summary.json through a sink', () => {
     };
     const again = await planPack(untouched, '2026-11-30', {
       ...options,
+      summaryPieces: (key) => (index.pieces.has(key) ? () => (piecesRead++, new Uint8Array(piece(key))) : undefined),
       cache: (key) => {
         const entry = entries.get(key);
         if (!entry) return undefined;
@@ -87,6 +92,7 @@ describe('summary.json through a sink', () => {
       },
     });
     expect(again.cacheUse).toEqual({ reused: 19, redone: 0 });
+    expect(piecesRead).toBe(19);
     expect(Buffer.from(again.files.get('summary.json')!).equals(bytes)).toBe(true);
     const charts = [...first.files].filter(([p]) => p.startsWith('charts/'));
     expect(charts).toHaveLength(19);
