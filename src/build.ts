@@ -20,7 +20,7 @@ import { chartSpec } from './render/scene/spec.ts';
 import { createTextMetrics } from './render/scene/text-metrics.ts';
 import type { Scene } from './render/scene/types.ts';
 import { type ChartJob, defaultJobs, drawCharts } from './render/pool/chart-pool.ts';
-import { type CacheHit, SUMMARY_INDEX, type Side, type SideKind, type Sides, type Stored, type SummaryIndex, type SummaryPieces, cacheKey, encodeEntry, encodeStored, entryPath, partKey, partPath, sidePath, textPath } from './pack/build-cache.ts';
+import { type CacheHit, type CachedPart, SUMMARY_INDEX, type Side, type SideKind, type Sides, type Stored, type SummaryIndex, type SummaryPieces, cacheKey, encodeEntry, encodeStored, entryPath, partKey, partPath, sidePath } from './pack/build-cache.ts';
 import { chartIdOf, chartIdsIn, hasFootnotes } from './pack/mdast.ts';
 import { splitParts } from './pack/parts.ts';
 import { RECORD_FILE, type SummaryLike, compareSummaries, comparisonRecord } from './review/since.ts';
@@ -77,12 +77,10 @@ export interface PackOptions {
   readonly maxCachedPoints?: number;
   /** Entries of an earlier build's cache, by key; absent: no cache is read or written. */
   readonly cache?: (key: string) => CacheHit | undefined;
-  /** Laid-out parts of an earlier build's pack.pdf, by part key (read only when `cache` is given). */
-  readonly partCache?: Stored<LaidOutPart>;
+  /** The pack's parts as an earlier build made them (pages of pack.pdf, index.md and index.html texts), by part key (read only when `cache` is given). */
+  readonly partCache?: Stored<CachedPart>;
   /** The parts of an earlier build's summary.json, by cache key (read only when `cache` is given). */
   readonly summaryPieces?: SummaryPieces;
-  /** The parts' index.md and index.html texts of an earlier build, by part key (read only when `cache` is given). */
-  readonly textCache?: Stored<PartText>;
 }
 
 export const DEFAULT_OPTIONS: PackOptions = { paper: 'a4', png: false };
@@ -263,7 +261,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
         return partKey(nodes, charts, options.paper);
       })
     : [];
-  const kept = new Map<string, () => Uint8Array>();
+  const partHits = partKeys.map((key) => options.partCache?.(key));
   // Markdown and HTML on the other thread, while this one lays out the PDF. With the cache, a tree
   // without footnotes goes in parts, and the parts an earlier build wrote go as their texts: the
   // worker is sent only the nodes and scenes of the others (a whole plant's were 0.6 s to send).
@@ -278,11 +276,8 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     const drawnHere = new Set<string>();
     pagesTree = {
       parts: parts.map((nodes, i): PagePart => {
-        const hit = options.textCache?.(partKeys[i]!);
-        if (hit) {
-          kept.set(textPath(partKeys[i]!), hit.bytes);
-          return { known: hit.value };
-        }
+        const known = partHits[i]?.value.text;
+        if (known) return { known };
         chartIdsIn(nodes, drawnHere);
         return { nodes };
       }),
@@ -306,12 +301,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     scenes: { get: sceneOf },
     fonts,
     producer: `${TOOL.name} ${TOOL.version}`,
-    reuse: (i) => {
-      const key = partKeys[i];
-      const hit = key === undefined ? undefined : options.partCache?.(key);
-      if (hit && key !== undefined) kept.set(partPath(key), hit.bytes);
-      return hit?.value;
-    },
+    reuse: (i) => partHits[i]?.value.pdf,
   });
   files.set('pack.pdf', pdf.bytes);
   lap('pdf');
@@ -388,21 +378,17 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     const pieces = new Map(keys.flatMap((key, i) => (summaryRanges[i] && cache.has(entryPath(key)) ? [[key, summaryRanges[i]] as const] : [])));
     const summaryBytes = summaryFile instanceof Uint8Array ? { bytes: summaryFile.length, sha256: sha256(summaryFile) } : summaryFile;
     cache.set(SUMMARY_INDEX, () => encodeStored({ bytes: summaryBytes.bytes, sha256: summaryBytes.sha256, pieces } satisfies SummaryIndex));
-    // Parts read unchanged are linked; new ones are written. A part's texts are left out when it has
-    // none (a tree with footnotes makes index.html whole).
+    // Parts read unchanged are linked; new ones are written, and so is one whose texts were written
+    // here for the first time (a tree with footnotes makes index.html whole, and leaves them out).
     const texts = new Map(fresh);
     partKeys.forEach((key, i) => {
-      const part = pdf.parts[i]!;
-      for (const [file, value] of [
-        [partPath(key), part],
-        [textPath(key), texts.get(i)],
-      ] as const) {
-        const old = kept.get(file);
-        if (old) {
-          cache.set(file, old);
-          cacheKept.add(file);
-        } else if (value !== undefined) cache.set(file, () => encodeStored(value));
-      }
+      const file = partPath(key);
+      const hit = partHits[i];
+      const text = hit?.value.text ?? texts.get(i) ?? null;
+      if (hit && hit.value.text === text) {
+        cache.set(file, hit.bytes);
+        cacheKept.add(file);
+      } else cache.set(file, () => encodeStored({ pdf: pdf.parts[i]!, text } satisfies CachedPart));
     });
   }
   lap('manifest and cache');

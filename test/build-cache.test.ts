@@ -8,6 +8,7 @@
 import { cpSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
+import { deserialize } from 'node:v8';
 import { afterAll, describe, expect, it } from 'vitest';
 import { ROOT, cli, hashTree } from './helpers/cli.ts';
 
@@ -16,11 +17,10 @@ afterAll(() => rmSync(temp, { recursive: true, force: true }));
 
 const CACHE = '.plumbline-cache';
 const packOnly = (dir: string) => Object.fromEntries(Object.entries(hashTree(dir)).filter(([f]) => !f.startsWith(CACHE)));
-/** Characteristics' entries (`<key>.v8`, with side files `<key>.svg`, `.png`, `.scene`); the pack's parts are the `pdf-` (laid-out pages) and `text-` (Markdown and HTML) ones. */
+/** Characteristics' entries (`<key>.v8`, with side files `<key>.svg`, `.png`, `.scene`); the pack's parts (pages, Markdown and HTML) are the `part-` ones. */
 const cacheKeys = (dir: string) => readdirSync(path.join(dir, CACHE)).filter((f) => /^[0-9a-f]{64}\.v8$/.test(f)).sort();
 const sideFiles = (dir: string) => readdirSync(path.join(dir, CACHE)).filter((f) => /^[0-9a-f]{64}\.(svg|png|scene)$/.test(f)).sort();
-const textKeys = (dir: string) => readdirSync(path.join(dir, CACHE)).filter((f) => f.startsWith('text-')).sort();
-const partKeys = (dir: string) => readdirSync(path.join(dir, CACHE)).filter((f) => f.startsWith('pdf-')).sort();
+const partKeys = (dir: string) => readdirSync(path.join(dir, CACHE)).filter((f) => f.startsWith('part-')).sort();
 const json = (r: { out: string }) => JSON.parse(r.out) as { exitCode: number; cache: { reused: number; redone: number } | null };
 
 describe('the build cache', () => {
@@ -52,9 +52,14 @@ describe('the build cache', () => {
     // pack.pdf's parts: the cover, contents, decisions, overview, a section per characteristic, cautions and method.
     const partsBefore = partKeys(out);
     expect(partsBefore.length).toBeGreaterThanOrEqual(19 + 4);
-    // Each part's index.md and index.html texts too, under the same key.
-    const textsBefore = textKeys(out);
-    expect(textsBefore.map((k) => k.slice('text-'.length))).toEqual(partsBefore.map((k) => k.slice('pdf-'.length)));
+    // Each with its index.md and index.html texts, which are the pages' own: joined, they are in index.md.
+    const partValue = (dir: string, k: string) => deserialize(readFileSync(path.join(dir, CACHE, k))) as { text: { md: string; html: string } | null };
+    const indexMd = readFileSync(path.join(out, 'index.md'), 'utf8');
+    for (const k of partsBefore) {
+      const text = partValue(out, k).text!;
+      expect(typeof text.html).toBe('string');
+      expect(indexMd).toContain(text.md.slice(0, -1));
+    }
     const partInodes = new Map(partsBefore.map((k) => [k, statSync(entryFile(k)).ino]));
     const bytesBefore = hashTree(path.join(out, CACHE));
     const warm = json(cli('build', ws, '--out', out, '--previous', before, '--json'));
@@ -82,7 +87,6 @@ describe('the build cache', () => {
     expect(laidOut.length).toBeGreaterThanOrEqual(2);
     expect(laidOut.length).toBeLessThanOrEqual(4);
     expect(partsAfter).toHaveLength(partsBefore.length);
-    expect(textKeys(out).map((k) => k.slice('text-'.length))).toEqual(partsAfter.map((k) => k.slice('pdf-'.length)));
     for (const k of partsAfter.filter((k) => partsBefore.includes(k))) expect(statSync(entryFile(k)).ino).toBe(partInodes.get(k));
 
     const cold = path.join(temp, 'cold');
@@ -170,6 +174,8 @@ describe('the build cache', () => {
     const coldOut = path.join(temp, 'noted-cold');
     expect(cli('build', noted, '--out', coldOut, '--previous', earlier, '--no-cache', '-q').code).toBe(0);
     expect(packOnly(warmOut)).toEqual(packOnly(coldOut));
+    // Its parts keep their pages but no texts: index.html was made whole.
+    for (const k of partKeys(warmOut)) expect((deserialize(readFileSync(path.join(warmOut, CACHE, k))) as { text: unknown }).text).toBeNull();
     // The footnote is there: its reference and its definition in index.md, its list in index.html.
     const md = readFileSync(path.join(warmOut, 'index.md'), 'utf8');
     expect(md).toContain('[^why]: So that every change');
@@ -220,7 +226,7 @@ describe('what the cache keeps', () => {
     const plan = await planPack(ws, ws.config.period.to, { paper: 'a4', png: false, jobs: 1, cache: () => undefined, maxCachedPoints: 40 });
     const counts = plan.assessments.map((a) => (a.status === 'assessed' ? a.samples.length : 0));
     // Counted from the assessments themselves: one entry per characteristic of at most 40 points, with
-    // its side files (the pack's parts, `pdf-` and `text-` entries, are kept whatever their charts' size).
+    // its side files (the pack's parts, `part-` entries, are kept whatever their charts' size).
     const entries = [...plan.cache.keys()].filter((k) => /^[0-9a-f]{64}\.v8$/.test(path.basename(k)));
     const sides = [...plan.cache.keys()].filter((k) => /^[0-9a-f]{64}\.(svg|png|scene)$/.test(path.basename(k)));
     expect(new Set(sides.map((k) => path.basename(k).slice(0, 64)))).toEqual(new Set(entries.map((k) => path.basename(k).slice(0, 64))));

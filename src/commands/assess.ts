@@ -170,7 +170,7 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
   const progress = quiet || !io.progress ? undefined : io.progress.bind(io);
   // The renderers are loaded only when a pack is built.
   const { planPack } = await import('../build.ts');
-  const { openCache, openPartCache, openSummaryPieces, openTextCache } = await import('../pack/build-cache.ts');
+  const { openCache, openPartCache, openSummaryPieces } = await import('../pack/build-cache.ts');
   // The pack's temporary folder, from here: summary.json is written into it as the analysis makes it.
   const folder = openPackFolder(outDir);
   let plan: Awaited<ReturnType<typeof planPack>>;
@@ -179,7 +179,7 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
       paper,
       summarySink: () => fileSink(folder, 'summary.json'),
       ...(jobs !== undefined ? { jobs } : {}),
-      ...(values['no-cache'] === true ? {} : { cache: openCache(outDir), partCache: openPartCache(outDir), textCache: openTextCache(outDir), summaryPieces: openSummaryPieces(outDir) }),
+      ...(values['no-cache'] === true ? {} : { cache: openCache(outDir), partCache: openPartCache(outDir), summaryPieces: openSummaryPieces(outDir) }),
       png: values.png === true,
       ...(previous ? { previous } : {}),
       ...(previousLedger ? { previousLedger } : {}),

@@ -25,7 +25,7 @@ import type { CharacteristicInput, Workspace } from '../workspace/load.ts';
 
 export const CACHE_DIR = '.plumbline-cache';
 /** Bump when what an entry holds, or how it is computed, changes without a tool version change. */
-const FORMAT = 5;
+const FORMAT = 6;
 
 /**
  * What is kept beside an entry, each in a file of its own that a rebuild
@@ -184,25 +184,31 @@ export function partKey(nodes: readonly RootContent[], chartKeys: readonly strin
   return createHash('sha256').update(JSON.stringify([FORMAT, TOOL, paper, chartKeys, nodes])).digest('hex');
 }
 
-export const partPath = (key: string) => `${CACHE_DIR}/pdf-${key}.v8`;
+/**
+ * One part of the pack as an earlier build made it: its pages of pack.pdf
+ * and its index.md and index.html texts (null for a tree with footnotes,
+ * whose index.html is made whole), in one file under the part's key.
+ */
+export interface CachedPart {
+  readonly pdf: LaidOutPart;
+  readonly text: PartText | null;
+}
+
+export const partPath = (key: string) => `${CACHE_DIR}/part-${key}.v8`;
 
 const isPart = (p: unknown): p is LaidOutPart =>
   typeof p === 'object' && p !== null && Array.isArray((p as LaidOutPart).sheets) && (p as LaidOutPart).sheets.every((s) => s instanceof Uint8Array) &&
   Array.isArray((p as LaidOutPart).anchors) && Array.isArray((p as LaidOutPart).links) && Array.isArray((p as LaidOutPart).contentsLines) && Array.isArray((p as LaidOutPart).opacities) && Array.isArray((p as LaidOutPart).shaped);
 
+const isText = (t: unknown): t is PartText => typeof t === 'object' && t !== null && typeof (t as PartText).md === 'string' && typeof (t as PartText).html === 'string';
+
+const isCachedPart = (v: unknown): v is CachedPart => typeof v === 'object' && v !== null && isPart((v as CachedPart).pdf) && ((v as CachedPart).text === null || isText((v as CachedPart).text));
+
 /** What an earlier build kept, read on demand: the value, and its file's bytes for a rebuild to link. */
 export type Stored<T> = (key: string) => { readonly value: T; readonly bytes: () => Uint8Array } | undefined;
 
-/** The laid-out PDF parts an earlier build left in `packDir`. */
-export const openPartCache = (packDir: string): Stored<LaidOutPart> => openStored(packDir, partPath, isPart);
-
-/** A part's index.md text and index.html body, under the same key as its PDF pages. */
-export const textPath = (key: string) => `${CACHE_DIR}/text-${key}.v8`;
-
-const isText = (t: unknown): t is PartText => typeof t === 'object' && t !== null && typeof (t as PartText).md === 'string' && typeof (t as PartText).html === 'string';
-
-/** The parts' Markdown and HTML an earlier build left in `packDir`. */
-export const openTextCache = (packDir: string): Stored<PartText> => openStored(packDir, textPath, isText);
+/** The pack's parts an earlier build left in `packDir`. */
+export const openPartCache = (packDir: string): Stored<CachedPart> => openStored(packDir, partPath, isCachedPart);
 
 /**
  * Where each characteristic's part of the pack's summary.json is (an item
