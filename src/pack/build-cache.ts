@@ -25,7 +25,7 @@ import type { CharacteristicInput, Workspace } from '../workspace/load.ts';
 
 export const CACHE_DIR = '.plumbline-cache';
 /** Bump when what an entry holds, or how it is computed, changes without a tool version change. */
-const FORMAT = 6;
+const FORMAT = 7;
 
 /**
  * What is kept beside an entry, each in a file of its own that a rebuild

@@ -446,13 +446,20 @@ export function layoutPart(nodes: readonly RootContent[], first: boolean, contex
   return partOf(pages, anchors, links, contentsLines);
 }
 
-/** Drawn sheets as a part: compressed here, so that a part kept in the cache is ready to write (zlib's default level). */
+/**
+ * Drawn sheets as a part: compressed here, so that a part kept in the cache
+ * is ready to write. zlib's level 4, not its default 6: a plant's 2,194
+ * sheets (42 MB of operators) took 0.47 s against 0.72–0.81 s, for 8.95 MB
+ * against 8.43 MB (scratch measurement, both levels run twice).
+ */
+const SHEET_LEVEL = 4;
+
 function partOf(sheets: readonly SheetInk[], anchors: LaidOutPart['anchors'], links: LaidOutPart['links'], contentsLines: LaidOutPart['contentsLines']): LaidOutPart {
   const opacities = new Set<number>();
   for (const s of sheets) for (const o of s.opacities) opacities.add(o);
   return {
     shaped: shapedOf(sheets),
-    sheets: sheets.map((s) => new Uint8Array(deflateSync(s.content(), { level: 6 }))),
+    sheets: sheets.map((s) => new Uint8Array(deflateSync(s.content(), { level: SHEET_LEVEL }))),
     opacities: [...opacities].sort((a, b) => a - b),
     anchors,
     links,
