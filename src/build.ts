@@ -227,6 +227,8 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   // analysis, SVGs slowed both down. PNGs (resvg, about 50 ms a chart) go to a pool of their own
   // beside the pages (300 characteristics: 39 s → 32 s).
   const svgsOnPagesWorker = pagesWorker !== undefined && !options.png;
+  // The worker starts on the SVGs now, while this thread builds the tree.
+  if (svgsOnPagesWorker && jobs.length > 0) pagesWorker.draw(jobs);
   const charts = svgsOnPagesWorker ? undefined : drawCharts(jobs, options.png ? allowed - 1 : 0, (n) => options.progress?.('charts', (done += n), total));
   if (charts && !(options.png && allowed > 1)) {
     await charts;
@@ -265,9 +267,11 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   // Markdown and HTML on the other thread, while this one lays out the PDF. With the cache, a tree
   // without footnotes goes in parts, and the parts an earlier build wrote go as their texts: the
   // worker is sent only the nodes and scenes of the others (a whole plant's were 0.6 s to send).
+  // The scenes the pages draw, less those the worker was sent with the charts it draws.
+  const withJobs = new Set(svgsOnPagesWorker ? jobs.map((j) => j.id) : []);
   const scenesOf = (ids: Iterable<string>) =>
     new Map([...ids].flatMap((id) => {
-      const scene = sceneOf(id);
+      const scene = withJobs.has(id) ? undefined : sceneOf(id);
       return scene ? [[id, scene] as const] : [];
     }));
   let pagesTree: TextPagesInput['tree'];
@@ -287,7 +291,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     pagesTree = { whole: pack.tree };
     pageScenes = scenesOf(chartIdsIn(pack.tree.children));
   }
-  const pagesInput: TextPagesInput = { tree: pagesTree, title: ws.config.title, scenes: pageScenes, ...(svgsOnPagesWorker ? { charts: jobs } : {}) };
+  const pagesInput: TextPagesInput = { tree: pagesTree, title: ws.config.title, scenes: pageScenes };
   const textPages = pagesWorker ? pagesWorker.run(pagesInput) : writeTextPagesHere(pagesInput);
   lap(pagesWorker ? 'markdown and html sent' : 'markdown and html');
   options.progress?.('pages', 1, 2);

@@ -1,15 +1,30 @@
 /**
  * The worker side of `startPagesWorker`: index.md and index.html, by the
- * same function the main thread would call, so the bytes are the same.
+ * same function the main thread would call, so the bytes are the same; and
+ * the standalone SVGs, from the moment they are sent.
  */
 import { parentPort } from 'node:worker_threads';
-import { type TextPagesInput, loadTextWriters, writeTextPagesHere } from './text-pages.ts';
+import type { Scene } from '../render/scene/types.ts';
+import { type PagesMessage, type SvgFile, drawSvgFiles, loadTextWriters, writeTextPagesHere } from './text-pages.ts';
 
 // Load the writers now, while the main thread analyses; the message comes later.
 void loadTextWriters();
 
-parentPort!.once('message', async (input: TextPagesInput) => {
-  const pages = await writeTextPagesHere(input);
+let drawing: Promise<SvgFile[]> | undefined;
+const sent = new Map<string, Scene>();
+
+parentPort!.on('message', async (message: PagesMessage) => {
+  if ('charts' in message) {
+    for (const job of message.charts) sent.set(job.id, job.scene);
+    drawing = drawSvgFiles(message.charts);
+    // A failure is reported with the pages, when the drawing is waited for.
+    drawing.catch(() => {});
+    return;
+  }
+  const input = message.pages;
+  const pages = await writeTextPagesHere({ ...input, scenes: new Map([...sent, ...input.scenes]) });
+  const charts = [...pages.charts, ...(drawing ? await drawing : [])];
+  const reply = { ...pages, charts };
   // Moved, not copied: a plant's SVGs are 66 MB, and a copy on each side raised the build's peak past 1 GiB.
-  parentPort!.postMessage(pages, [pages.md.buffer, pages.html.buffer, ...pages.charts.map((c) => c.svg.buffer)] as ArrayBuffer[]);
+  parentPort!.postMessage(reply, [reply.md.buffer, reply.html.buffer, ...reply.charts.map((c) => c.svg.buffer)] as ArrayBuffer[]);
 });

@@ -87,12 +87,24 @@ export async function writeTextPagesHere(input: TextPagesInput): Promise<TextPag
     md = encoder.encode(toMarkdown(tree));
     html = encoder.encode(toHtml({ ...pageInput, tree }));
   }
-  const charts = input.charts?.length ? (await drawCharts(input.charts, 0)).map((r) => ({ id: r.id, svg: encoder.encode(r.svg) })) : [];
+  const charts = input.charts?.length ? await drawSvgFiles(input.charts) : [];
   return { md, html, charts, fresh };
 }
 
+/** The standalone SVG files of `jobs`, drawn in this thread. */
+export const drawSvgFiles = async (jobs: readonly ChartJob[]): Promise<SvgFile[]> => (await drawCharts(jobs, 0)).map((r) => ({ id: r.id, svg: encoder.encode(r.svg) }));
+
+/** What the worker is sent: first, optionally, the SVGs to draw (as soon as their scenes are made), then the pages. */
+export type PagesMessage = { readonly charts: readonly ChartJob[] } | { readonly pages: TextPagesInput };
+
 /** A worker for the pages: `run` hands it the pages to write, `stop` ends it (unused or not). */
 export interface PagesWorker {
+  /**
+   * Standalone SVGs for the worker to draw at once, before the pages come:
+   * a plant's drawing then starts while this thread still builds the tree.
+   * Their scenes need not be sent again with the pages.
+   */
+  draw(charts: readonly ChartJob[]): void;
   run(input: TextPagesInput): Promise<TextPages>;
   stop(): void;
 }
@@ -109,6 +121,7 @@ export function startPagesWorker(): PagesWorker {
   worker.on('error', early);
   const stop = () => void worker.terminate();
   return {
+    draw: (charts) => worker.postMessage({ charts } satisfies PagesMessage),
     run: (input) =>
       new Promise<TextPages>((resolve, reject) => {
         if (failed) return reject(failed);
@@ -116,7 +129,7 @@ export function startPagesWorker(): PagesWorker {
         worker.once('message', (pages: TextPages) => resolve(pages));
         worker.once('error', reject);
         worker.once('exit', (code) => reject(new Error(`the page worker stopped (exit code ${code})`)));
-        worker.postMessage(input);
+        worker.postMessage({ pages: input } satisfies PagesMessage);
       }).finally(stop),
     stop,
   };
