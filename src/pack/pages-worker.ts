@@ -23,7 +23,7 @@ parentPort!.on('message', async (message: PagesMessage) => {
   }
   const input = message.pages;
   const pages = await writeTextPagesHere({ ...input, scenes: new Map([...sent, ...input.scenes]) });
-  const charts = [...pages.charts, ...(drawing ? await drawing : [])];
+  const charts = drawing ? await drawing : [];
   const reply = { ...pages, charts };
   // Moved, not copied: a plant's SVGs are 66 MB, and a copy on each side raised the build's peak past 1 GiB.
   parentPort!.postMessage(reply, [reply.md.buffer, reply.html.buffer, ...reply.charts.map((c) => c.svg.buffer)] as ArrayBuffer[]);

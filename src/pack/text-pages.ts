@@ -2,8 +2,9 @@
  * index.md and index.html, written on another thread when there is one to
  * spare: both are serialisations of the pack tree (remark, rehype) that
  * need nothing the PDF layout needs in turn. On a plant's pack they take
- * about half as long as the PDF does, so that thread then draws the
- * standalone SVGs too, and the three run beside the PDF.
+ * about half as long as the PDF does, so that thread draws the standalone
+ * SVGs too (sent as soon as their scenes are made), and the three run
+ * beside the PDF.
  */
 import { Worker } from 'node:worker_threads';
 import type { Root, RootContent } from 'mdast';
@@ -24,8 +25,6 @@ export interface TextPagesInput {
   readonly title: string;
   /** The scenes of the charts the tree's nodes draw (the parts given as texts need none). */
   readonly scenes: ReadonlyMap<string, Scene>;
-  /** Standalone SVGs to draw once the pages are written (the worker has time to spare while the PDF is laid out). */
-  readonly charts?: readonly ChartJob[];
 }
 
 /** One part of the tree: its nodes to write, or its texts as an earlier build wrote them. */
@@ -46,7 +45,7 @@ export interface SvgFile {
 export interface TextPages {
   readonly md: Uint8Array;
   readonly html: Uint8Array;
-  /** The SVG files of the `charts` asked for, in their order. */
+  /** The SVG files the worker was asked to `draw`, in their order (none when written in this thread). */
   readonly charts: readonly SvgFile[];
   /** With the tree in parts: those written here, by part index, for the cache. */
   readonly fresh: readonly (readonly [index: number, text: PartText])[];
@@ -87,8 +86,7 @@ export async function writeTextPagesHere(input: TextPagesInput): Promise<TextPag
     md = encoder.encode(toMarkdown(tree));
     html = encoder.encode(toHtml({ ...pageInput, tree }));
   }
-  const charts = input.charts?.length ? await drawSvgFiles(input.charts) : [];
-  return { md, html, charts, fresh };
+  return { md, html, charts: [], fresh };
 }
 
 /** The standalone SVG files of `jobs`, drawn in this thread. */
@@ -97,7 +95,7 @@ export const drawSvgFiles = async (jobs: readonly ChartJob[]): Promise<SvgFile[]
 /** What the worker is sent: first, optionally, the SVGs to draw (as soon as their scenes are made), then the pages. */
 export type PagesMessage = { readonly charts: readonly ChartJob[] } | { readonly pages: TextPagesInput };
 
-/** A worker for the pages: `run` hands it the pages to write, `stop` ends it (unused or not). */
+/** A worker for the pages: `draw` hands it SVGs to draw, `run` the pages to write, `stop` ends it (unused or not). */
 export interface PagesWorker {
   /**
    * Standalone SVGs for the worker to draw at once, before the pages come:
