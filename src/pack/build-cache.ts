@@ -235,8 +235,9 @@ export type SummaryPieces = (key: string) => (() => Uint8Array) | undefined;
 
 /**
  * The parts of the summary.json in `packDir` that its index names, if the
- * file is the one indexed (its size and SHA-256, read through once); none
- * otherwise. A part is read when it is written into the new file.
+ * file is the one indexed (its size and SHA-256, read through once, when a
+ * part is first asked for); none otherwise. A part is read when it is
+ * written into the new file.
  */
 export function openSummaryPieces(packDir: string): SummaryPieces {
   const none: SummaryPieces = () => undefined;
@@ -246,16 +247,22 @@ export function openSummaryPieces(packDir: string): SummaryPieces {
   } catch {
     return none;
   }
-  if (!isSummaryIndex(index)) return none;
+  if (!isSummaryIndex(index) || index.pieces.size === 0) return none;
   const file = path.join(packDir, SUMMARY_FILE);
-  try {
-    if (statSync(file).size !== index.bytes || sha256OfFile(file) !== index.sha256) return none;
-  } catch {
-    return none;
-  }
+  // Checked when a part is first asked for: a build that asks for none (a long series, which the
+  // cache does not keep, makes a summary.json of hundreds of megabytes) never reads the file.
+  let valid: boolean | undefined;
+  const check = () => {
+    try {
+      return statSync(file).size === index.bytes && sha256OfFile(file) === index.sha256;
+    } catch {
+      return false;
+    }
+  };
   return (key) => {
     const range = index.pieces.get(key);
     if (!range || range[0] < 0 || range[1] > index.bytes || range[0] > range[1]) return undefined;
+    if (!(valid ??= check())) return undefined;
     return () => readRange(file, range[0], range[1]);
   };
 }
