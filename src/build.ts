@@ -368,7 +368,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
       if (d) {
         make('svg', { bytes: d.svg.length, sha256: shaOf.get(chartFile(id))! }, () => d.svg);
         const png = d.png;
-        if (png) make('png', { bytes: png.length, sha256: shaOf.get(pngFile(id)) ?? sha256(png) }, () => png);
+        if (png) make('png', { bytes: png.length, sha256: shaOf.get(pngFile(id))! }, () => png);
       } else {
         keep('svg');
         keep('png');

@@ -1,10 +1,11 @@
 /**
  * The incremental build cache: for each characteristic, its assessment
- * (with its scene, drawn chart and part of summary.json beside it), stored under a key that hashes everything
- * they are computed from. A rebuild after one data file changes finds every
- * other characteristic here and analyses and draws only that one; the pack
- * is then assembled from all of them as in a cold build, so its bytes are
- * the same.
+ * (with its chart and scene in files beside it), stored under a key that
+ * hashes everything they are computed from; each part of the pack; and
+ * where each characteristic's item sits in the pack's summary.json. A
+ * rebuild after one data file changes finds every other characteristic
+ * here and analyses and draws only that one; the pack is then assembled
+ * from all of them as in a cold build, so its bytes are the same.
  *
  * The cache lives in the pack folder (`.plumbline-cache/`), because a build
  * writes nothing outside --out. It is not part of the pack: the manifest
