@@ -99,7 +99,10 @@ export function toHtml(input: HtmlInput, { whole = false, parts }: { readonly wh
     return out;
   };
   let body: string[];
-  if (whole || hasFootnotes(input.tree)) {
+  const footnotes = hasFootnotes(input.tree);
+  // Parts are written alone and kept apart, so a tree given in parts must have no footnotes (the caller converts such a tree whole).
+  if (parts && footnotes) throw new Error('internal: a tree with footnotes is converted whole, not in parts');
+  if (whole || footnotes) {
     const hast = toHast.runSync(input.tree) as HastRoot;
     body = hast.children.length > 0 ? [toText.stringify(hast)] : [];
   } else if (parts) {

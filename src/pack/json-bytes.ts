@@ -11,13 +11,13 @@ const CHUNK = 1 << 20;
 
 /**
  * A value already written: the bytes this module writes for it at the
- * indentation `indent` (kept from an earlier build), put into the document
- * as they are, and read only when they are reached if given as a function.
- * Only valid where the value would be written at `indent`.
+ * indentation `indent` (kept from an earlier build), read when they are
+ * reached and put into the document as they are. Only valid where the
+ * value would be written at `indent`.
  */
 export class WrittenJson {
   constructor(
-    readonly bytes: Uint8Array | (() => Uint8Array),
+    readonly bytes: () => Uint8Array,
     readonly indent: string,
   ) {}
 }
@@ -165,7 +165,7 @@ function documentChunks(value: unknown, layout: JsonLayout, chunk: number, out: 
       if (buffer.length >= chunk) flush();
     } else if (p instanceof WrittenJson) {
       flush();
-      out.bytes(typeof p.bytes === 'function' ? p.bytes() : p.bytes);
+      out.bytes(p.bytes());
     } else {
       flush();
       p.here(out.offset());

@@ -11,7 +11,6 @@ import type { Root, RootContent } from 'mdast';
 import { loadFonts } from '../render/fonts.ts';
 import { type ChartJob, drawCharts } from '../render/pool/chart-pool.ts';
 import type { Scene } from '../render/scene/types.ts';
-import { hasFootnotes } from './mdast.ts';
 import { workerEntry } from '../worker-entry.ts';
 
 export interface TextPagesInput {
@@ -73,9 +72,8 @@ export async function writeTextPagesHere(input: TextPagesInput): Promise<TextPag
       const p = given[i]!;
       return 'known' in p ? p.known : undefined;
     };
-    // The tree of the parts to write, for the page around them: index.html would convert it whole if it had footnotes.
+    // The tree of the parts to write (toHtml refuses parts of a tree with footnotes).
     const tree: Root = { type: 'root', children: nodes.flat() };
-    if (hasFootnotes(tree)) throw new Error('internal: a tree with footnotes is written whole, not in parts');
     const freshMd = new Map<number, string>();
     const freshHtml = new Map<number, string>();
     md = encoder.encode(toMarkdownByParts(nodes, (i) => known(i)?.md, (i, t) => freshMd.set(i, t)));

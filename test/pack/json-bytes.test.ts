@@ -147,16 +147,16 @@ describe('bytes kept from an earlier document (MarkedJson, WrittenJson)', () => 
     const ranges: [number, number][] = [];
     const first = jsonBytes(marked(ranges), layout);
     for (const keep of [() => true, (i: number) => i % 3 === 0, (i: number) => i === 59]) {
-      const again = { format: 1, characteristics: items.map((v, i) => (keep(i) ? new WrittenJson(first.slice(ranges[i]![0], ranges[i]![1]), '    ') : v)) };
+      const again = { format: 1, characteristics: items.map((v, i) => (keep(i) ? new WrittenJson(() => first.slice(ranges[i]![0], ranges[i]![1]), '    ') : v)) };
       expect(Buffer.from(jsonBytes(again, layout)).equals(Buffer.from(first))).toBe(true);
       for (const chunk of [7, 1000]) expect(Buffer.from(gather(again, chunk)).equals(Buffer.from(first))).toBe(true);
     }
     // Even where the whole would be small enough for JSON.stringify: written bytes are never stringified.
-    const one = { characteristics: [new WrittenJson(new TextEncoder().encode('{"a": 1}'), '    ')] };
+    const one = { characteristics: [new WrittenJson(() => new TextEncoder().encode('{"a": 1}'), '    ')] };
     expect(decode(jsonBytes(one))).toBe('{\n  "characteristics": [\n    {"a": 1}\n  ]\n}\n');
   });
 
   it('refuses written bytes put at another indentation', () => {
-    expect(() => jsonBytes([new WrittenJson(new Uint8Array([0x31]), '    ')])).toThrow(/indent/);
+    expect(() => jsonBytes([new WrittenJson(() => new Uint8Array([0x31]), '    ')])).toThrow(/indent/);
   });
 });
