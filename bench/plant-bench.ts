@@ -10,8 +10,9 @@
  *   - a rebuild after one data file changed (the build cache at work);
  *   - per-chart render time of each renderer, median and p95;
  *   - output sizes, HTML bytes per characteristic among them;
- *   - the statistics core alone on 1,000 characteristics × 1,000 points, in a
- *     fresh process, twice (bench/core.ts).
+ *   - the statistics core alone on 1,000 characteristics × 1,000 points:
+ *     statistics and signals, then the whole analysis, each in a fresh
+ *     process, twice (bench/core.ts).
  * BENCH_CHARACTERISTICS (default 1000) sizes the plant.
  */
 import { spawnSync } from 'node:child_process';
@@ -133,7 +134,10 @@ for (const [name, xs] of Object.entries(times)) {
 
 // 5. The statistics core alone, in a fresh process (bench/core.ts): here, the plant's data would
 // still be on the heap and its collection would be counted against the core.
-const core = spawnSync(process.execPath, ['--import', 'tsx', path.resolve('bench/core.ts')], { encoding: 'utf8' });
-if (core.status !== 0) throw new Error(`bench/core.ts failed:\n${core.stderr}`);
-process.stdout.write(core.stdout);
+// Each stage in a fresh process of its own, so neither is timed with the other's compiled code.
+for (const stage of ['panels', 'whole']) {
+  const core = spawnSync(process.execPath, ['--import', 'tsx', path.resolve('bench/core.ts'), stage], { encoding: 'utf8' });
+  if (core.status !== 0) throw new Error(`bench/core.ts failed:\n${core.stderr}`);
+  process.stdout.write(core.stdout);
+}
 line('peak resident memory of this process', `${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MiB`);

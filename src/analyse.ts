@@ -71,7 +71,27 @@ export interface AnalyseInput {
   readonly asOf: IsoDate;
 }
 
-export function analyse(input: AnalyseInput): Assessment {
+/**
+ * The statistics and signals of one characteristic: the ledger replayed,
+ * baselines and limits per point, and the rules' signals on each panel.
+ * `analyse` goes on from here to the evidence and the recommendation; the
+ * benchmark times this stage on its own as well.
+ */
+export interface Panels {
+  readonly status: 'charted';
+  readonly replay: ReturnType<typeof replayLedger>;
+  readonly family: ReturnType<typeof family>;
+  readonly baselines: readonly Baseline[];
+  readonly baselineOf: readonly number[];
+  readonly location: PanelResult & { readonly values: readonly number[] };
+  readonly dispersion?: PanelResult;
+  /** Per point, the median line its same-side runs are judged against (small counts), if any. */
+  readonly runSides: readonly (RunSide | undefined)[];
+  readonly panelKind: 'variables' | 'attributes';
+  readonly diagnostics: Diagnostic[];
+}
+
+export function computePanels(input: AnalyseInput): Panels | NotAssessed {
   const { config, characteristic: ch, samples } = input;
   const diagnostics: Diagnostic[] = [...input.diagnostics];
   const replay = replayLedger(input.ledgerFile, ch.id, samples, input.ledger, input.laterLabels);
@@ -141,7 +161,7 @@ export function analyse(input: AnalyseInput): Assessment {
     rulesFor(config.rules, panelKind),
     explained,
   );
-  const location: PanelResult = { values: locValues, limits: locLimits, signals: locSignals };
+  const location = { values: locValues, limits: locLimits, signals: locSignals };
   const dispersion: PanelResult | undefined = fam.dispersionLabel
     ? {
         values: dispValues,
@@ -149,6 +169,17 @@ export function analyse(input: AnalyseInput): Assessment {
         signals: evaluatePanel('dispersion', { values: dispValues, limits: dispLimits }, baselines, rulesFor(config.rules, 'dispersion'), dispersionExplained),
       }
     : undefined;
+  return { status: 'charted', replay, family: fam, baselines, baselineOf, location, ...(dispersion ? { dispersion } : {}), runSides, panelKind, diagnostics };
+}
+
+export function analyse(input: AnalyseInput): Assessment {
+  const panels = computePanels(input);
+  if (panels.status === 'not-assessed') return panels;
+  const { config, characteristic: ch, samples } = input;
+  const { replay, family: fam, baselines, baselineOf, location, dispersion, runSides, panelKind, diagnostics } = panels;
+  const locValues = location.values;
+  const locLimits = location.limits;
+  const locSignals = location.signals;
 
   const period = config.period;
   // A one-time refresh is offered once a frozen baseline has 100 individual values or 25 subgroups (REFERENCE §4).
