@@ -10,7 +10,7 @@ import type { Diagnostic } from './diagnostics.ts';
 import type { IsoDate } from './model.ts';
 import { buildPackTree } from './pack/content.ts';
 import { MarkedJson, WrittenJson, jsonBytes, jsonChunks } from './pack/json-bytes.ts';
-import type { FileSink } from './pack/write.ts';
+import type { FileSink, SunkFile } from './pack/write.ts';
 import { type PagePart, type PagesWorker, type PartText, type TextPagesInput, startPagesWorker, writeTextPagesHere } from './pack/text-pages.ts';
 import { type LaidOutPart, type Paper, toPdf } from './pack/pdf.ts';
 import { loadFonts } from './render/fonts.ts';
@@ -27,6 +27,7 @@ import { RECORD_FILE, type SummaryLike, compareSummaries, comparisonRecord } fro
 import { TOOL } from './version.ts';
 import type { Workspace } from './workspace/load.ts';
 import { deserialize } from 'node:v8';
+import { createHash } from 'node:crypto';
 
 export interface PlannedPack {
   /** Output path (relative to --out) → contents, in write order. */
@@ -132,7 +133,7 @@ function summarise(ws: Workspace, asOf: IsoDate, options: PackOptions, known: (i
     return new MarkedJson(bytes ? new WrittenJson(bytes, CHARACTERISTIC_INDENT) : c, (start, end) => (ranges[i] = [start, end]));
   });
   const document = { ...summary, characteristics };
-  let summaryFile: Uint8Array | { readonly bytes: number; readonly sha256: string };
+  let summaryFile: Uint8Array | SunkFile;
   if (options.summarySink) {
     const sink = options.summarySink();
     jsonChunks(document, SUMMARY_LAYOUT, (b) => sink.write(b));
@@ -328,7 +329,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   }
   const placed = new Map<string, { readonly bytes: number; readonly sha256: string }>();
   if (summaryFile instanceof Uint8Array) files.set('summary.json', summaryFile);
-  else placed.set('summary.json', summaryFile);
+  else placed.set('summary.json', { bytes: summaryFile.bytes, sha256: summaryFile.sha256 });
   files.set(RECORD_FILE, recordBytes);
   const outputs = [...entries(files), ...[...placed, ...copies].map(([p, f]) => ({ path: p, bytes: f.bytes, sha256: f.sha256 }))].sort((a, b) => comparePaths(a.path, b.path));
   files.set('manifest.json', json({ tool: TOOL, asOf, fingerprint, inputs, ledger: { ...integrity.chain, rewrites: integrity.rewrites }, outputs }));
@@ -381,8 +382,8 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     });
     // Where each cached characteristic's part of summary.json is, for the next build.
     const pieces = new Map(keys.flatMap((key, i) => (summaryRanges[i] && cache.has(entryPath(key)) ? [[key, summaryRanges[i]] as const] : [])));
-    const summaryBytes = summaryFile instanceof Uint8Array ? { bytes: summaryFile.length, sha256: sha256(summaryFile) } : summaryFile;
-    cache.set(SUMMARY_INDEX, () => encodeStored({ bytes: summaryBytes.bytes, sha256: summaryBytes.sha256, pieces } satisfies SummaryIndex));
+    const summary = summaryFile instanceof Uint8Array ? { bytes: summaryFile.length, sha1: createHash('sha1').update(summaryFile).digest('hex') } : summaryFile;
+    cache.set(SUMMARY_INDEX, () => encodeStored({ bytes: summary.bytes, sha1: summary.sha1, pieces } satisfies SummaryIndex));
     // Parts read unchanged are linked; new ones are written, and so is one whose texts were written
     // here for the first time (a tree with footnotes makes index.html whole, and leaves them out).
     const texts = new Map(fresh);

@@ -89,7 +89,7 @@ describe('the pack folder a build opens before it plans', () => {
     sink.write(new TextEncoder().encode('{"a":'));
     sink.write(new TextEncoder().encode('1}\n'));
     // SHA-256 of the 8 bytes '{"a":1}\n', from Node's crypto module (a reference outside this project).
-    expect(sink.close()).toEqual({ bytes: 8, sha256: createHash('sha256').update('{"a":1}\n').digest('hex') });
+    expect(sink.close()).toEqual({ bytes: 8, sha256: createHash('sha256').update('{"a":1}\n').digest('hex'), sha1: createHash('sha1').update('{"a":1}\n').digest('hex') });
     discardPackFolder(folder);
     expect(existsSync(path.join(temp, 'new'))).toBe(false);
 

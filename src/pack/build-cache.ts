@@ -213,14 +213,15 @@ export const openPartCache = (packDir: string): Stored<CachedPart> => openStored
 
 /**
  * Where each characteristic's part of the pack's summary.json is (an item
- * of its `characteristics`, by cache key), with the file's size and SHA-256:
+ * of its `characteristics`, by cache key), with the file's size and SHA-1
+ * (a check against edits, not a signature; the manifest has its SHA-256):
  * a rebuild puts an unchanged characteristic's part into the new file as
  * the bytes it finds there (a plant's summary.json is 86 MB; written afresh
  * it took 1.6 s), and uses none of them if the file is not the one indexed.
  */
 export interface SummaryIndex {
   readonly bytes: number;
-  readonly sha256: string;
+  readonly sha1: string;
   /** Cache key → [start, end) byte offsets. */
   readonly pieces: ReadonlyMap<string, readonly [number, number]>;
 }
@@ -229,14 +230,14 @@ export const SUMMARY_INDEX = `${CACHE_DIR}/summary-index.v8`;
 const SUMMARY_FILE = 'summary.json';
 
 const isSummaryIndex = (v: unknown): v is SummaryIndex =>
-  typeof v === 'object' && v !== null && Number.isSafeInteger((v as SummaryIndex).bytes) && typeof (v as SummaryIndex).sha256 === 'string' && (v as SummaryIndex).pieces instanceof Map;
+  typeof v === 'object' && v !== null && Number.isSafeInteger((v as SummaryIndex).bytes) && typeof (v as SummaryIndex).sha1 === 'string' && (v as SummaryIndex).pieces instanceof Map;
 
 /** Reads a piece of summary.json, by cache key, as the bytes to put into the new one. */
 export type SummaryPieces = (key: string) => (() => Uint8Array) | undefined;
 
 /**
  * The parts of the summary.json in `packDir` that its index names, if the
- * file is the one indexed (its size and SHA-256, read through once, when a
+ * file is the one indexed (its size and SHA-1, read through once, when a
  * part is first asked for); none otherwise. A part is read when it is
  * written into the new file.
  */
@@ -255,7 +256,7 @@ export function openSummaryPieces(packDir: string): SummaryPieces {
   let valid: boolean | undefined;
   const check = () => {
     try {
-      return statSync(file).size === index.bytes && sha256OfFile(file) === index.sha256;
+      return statSync(file).size === index.bytes && digestOfFile(file, 'sha1') === index.sha1;
     } catch {
       return false;
     }
@@ -268,8 +269,8 @@ export function openSummaryPieces(packDir: string): SummaryPieces {
   };
 }
 
-function sha256OfFile(file: string): string {
-  const h = createHash('sha256');
+function digestOfFile(file: string, algorithm: string): string {
+  const h = createHash(algorithm);
   const fd = openSync(file, 'r');
   try {
     const buffer = new Uint8Array(1 << 20);
