@@ -53,12 +53,16 @@ describe('the build cache', () => {
     const partsBefore = partKeys(out);
     expect(partsBefore.length).toBeGreaterThanOrEqual(19 + 4);
     // Each with its index.md and index.html texts, which are the pages' own: joined, they are in index.md.
-    const partValue = (dir: string, k: string) => deserialize(readFileSync(path.join(dir, CACHE, k))) as { text: { md: string; html: string } | null };
+    const partValue = (dir: string, k: string) => deserialize(readFileSync(path.join(dir, CACHE, k))) as { text: { md: Uint8Array; html: Uint8Array } | null };
     const indexMd = readFileSync(path.join(out, 'index.md'), 'utf8');
+    const indexHtml = readFileSync(path.join(out, 'index.html'), 'utf8');
+    // Each part's texts are kept as UTF-8 bytes, and are found as they are in the pack's files.
+    const utf8 = new TextDecoder('utf-8', { fatal: true });
     for (const k of partsBefore) {
       const text = partValue(out, k).text!;
-      expect(typeof text.html).toBe('string');
-      expect(indexMd).toContain(text.md.slice(0, -1));
+      expect(text.md).toBeInstanceOf(Uint8Array);
+      expect(indexMd).toContain(utf8.decode(text.md).slice(0, -1));
+      expect(indexHtml).toContain(utf8.decode(text.html));
     }
     const partInodes = new Map(partsBefore.map((k) => [k, statSync(entryFile(k)).ino]));
     const bytesBefore = hashTree(path.join(out, CACHE));

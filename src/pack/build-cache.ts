@@ -26,7 +26,7 @@ import type { CharacteristicInput, Workspace } from '../workspace/load.ts';
 
 export const CACHE_DIR = '.plumbline-cache';
 /** Bump when what an entry holds, or how it is computed, changes without a tool version change. */
-const FORMAT = 7;
+const FORMAT = 8;
 
 /**
  * What is kept beside an entry, each in a file of its own that a rebuild
@@ -201,7 +201,7 @@ const isPart = (p: unknown): p is LaidOutPart =>
   typeof p === 'object' && p !== null && Array.isArray((p as LaidOutPart).sheets) && (p as LaidOutPart).sheets.every((s) => s instanceof Uint8Array) &&
   Array.isArray((p as LaidOutPart).anchors) && Array.isArray((p as LaidOutPart).links) && Array.isArray((p as LaidOutPart).contentsLines) && Array.isArray((p as LaidOutPart).opacities) && Array.isArray((p as LaidOutPart).shaped);
 
-const isText = (t: unknown): t is PartText => typeof t === 'object' && t !== null && typeof (t as PartText).md === 'string' && typeof (t as PartText).html === 'string';
+const isText = (t: unknown): t is PartText => typeof t === 'object' && t !== null && (t as PartText).md instanceof Uint8Array && (t as PartText).html instanceof Uint8Array;
 
 const isCachedPart = (v: unknown): v is CachedPart => typeof v === 'object' && v !== null && isPart((v as CachedPart).pdf) && ((v as CachedPart).text === null || isText((v as CachedPart).text));
 

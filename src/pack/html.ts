@@ -12,6 +12,7 @@ import { unified } from 'unified';
 import { FONT_FAMILY } from '../render/fonts.ts';
 import type { Scene } from '../render/scene/types.ts';
 import { inlineSvg } from '../render/svg-inline.ts';
+import { concatBytes } from './bytes.ts';
 import { hasFootnotes } from './mdast.ts';
 import { PACK_CSS } from './style.ts';
 
@@ -32,21 +33,20 @@ function fontFace(bytes: Uint8Array, weight: number): string {
   return `@font-face{font-family:"${FONT_FAMILY}";font-weight:${weight};font-style:normal;src:url(data:font/ttf;base64,${Buffer.from(bytes).toString('base64')}) format("truetype")}`;
 }
 
-/**
- * The page. `whole` converts the tree as one document, the plain use of
- * remark-rehype; the block-by-block route below must give the same bytes
- * (test/pack/content.test.ts compares them).
- */
+/** The tree in parts for toHtmlByParts; a part's body HTML is UTF-8 bytes. */
 export interface HtmlParts {
   /** The tree's top-level nodes in parts (splitParts); the page's body is theirs in order. */
   readonly parts: readonly (readonly RootContent[])[];
   /** A part's body HTML as an earlier build wrote it, if known. */
-  readonly known: (i: number) => string | undefined;
+  readonly known: (i: number) => Uint8Array | undefined;
   /** Hears of each part's body HTML written here. */
-  readonly fresh: (i: number, html: string) => void;
+  readonly fresh: (i: number, html: Uint8Array) => void;
 }
 
-export function toHtml(input: HtmlInput, { whole = false, parts }: { readonly whole?: boolean; readonly parts?: HtmlParts } = {}): string {
+const encoder = new TextEncoder();
+
+/** The page's two ends around its body, and the writer of a run of top-level blocks. */
+function pageParts(input: HtmlInput) {
   const toHast = unified().use(remarkRehype, {
     handlers: {
       image(state, node) {
@@ -98,21 +98,49 @@ export function toHtml(input: HtmlInput, { whole = false, parts }: { readonly wh
     }
     return out;
   };
-  let body: string[];
-  const footnotes = hasFootnotes(input.tree);
-  // Parts are written alone and kept apart, so a tree given in parts must have no footnotes (the caller converts such a tree whole).
-  if (parts && footnotes) throw new Error('internal: a tree with footnotes is converted whole, not in parts');
-  if (whole || footnotes) {
-    const hast = toHast.runSync(input.tree) as HastRoot;
-    body = hast.children.length > 0 ? [toText.stringify(hast)] : [];
-  } else if (parts) {
-    // A part's HTML is its blocks' joined as the body joins them; a part that makes nothing adds no line.
-    body = parts.parts.map((nodes, i) => {
-      let html = parts.known(i);
-      if (html === undefined) parts.fresh(i, (html = convert(nodes).join('\n')));
-      return html;
-    });
-    body = body.filter((h) => h !== '');
-  } else body = convert(input.tree.children);
-  return `${page.slice(0, at)}<main>${body.join('\n')}</main>${page.slice(at + '<main></main>'.length)}\n`;
+  const whole = (tree: Root): string[] => {
+    const hast = toHast.runSync(tree) as HastRoot;
+    return hast.children.length > 0 ? [toText.stringify(hast)] : [];
+  };
+  return { before: `${page.slice(0, at)}<main>`, after: `</main>${page.slice(at + '<main></main>'.length)}\n`, convert, whole };
 }
+
+/**
+ * The page. `whole` converts the tree as one document, the plain use of
+ * remark-rehype; the block-by-block route must give the same bytes
+ * (test/pack/content.test.ts compares them).
+ */
+export function toHtml(input: HtmlInput, { whole = false }: { readonly whole?: boolean } = {}): string {
+  const page = pageParts(input);
+  const body = whole || hasFootnotes(input.tree) ? page.whole(input.tree) : page.convert(input.tree.children);
+  return `${page.before}${body.join('\n')}${page.after}`;
+}
+
+/**
+ * The page as UTF-8 bytes from the tree's parts, each converted alone or,
+ * where `parts.known` has it, taken as an earlier build wrote it: a part's
+ * HTML is its blocks' joined as the body joins them, and a part that makes
+ * nothing adds no line (test/pack/parts.test.ts compares the bytes with
+ * `toHtml(…, { whole: true })`). Parts are written alone and kept apart, so
+ * `input.tree` (the nodes of the parts to convert) must have no footnotes:
+ * a tree with any is converted whole, by toHtml.
+ */
+export function toHtmlByParts(input: HtmlInput, parts: HtmlParts): Uint8Array {
+  if (hasFootnotes(input.tree)) throw new Error('internal: a tree with footnotes is converted whole, not in parts');
+  const page = pageParts(input);
+  const chunks: Uint8Array[] = [encoder.encode(page.before)];
+  let first = true;
+  parts.parts.forEach((nodes, i) => {
+    let html = parts.known(i);
+    if (html === undefined) parts.fresh(i, (html = encoder.encode(page.convert(nodes).join('\n'))));
+    if (html.length === 0) return;
+    if (!first) chunks.push(NEWLINE);
+    chunks.push(html);
+    first = false;
+  });
+  chunks.push(encoder.encode(page.after));
+  return concatBytes(chunks);
+}
+
+const NEWLINE = new Uint8Array([0x0a]);
+

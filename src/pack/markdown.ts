@@ -4,6 +4,7 @@ import type { Handle } from 'mdast-util-to-markdown';
 import remarkGfm from 'remark-gfm';
 import remarkStringify from 'remark-stringify';
 import { unified } from 'unified';
+import { concatBytes } from './bytes.ts';
 
 const ZWSP = '\u200b';
 
@@ -64,19 +65,27 @@ export function toMarkdown(tree: Root): string {
 }
 
 /**
- * index.md from the tree's parts (splitParts: the cover, then each level-2
- * heading with what follows it), each written alone or, where `known` has
- * it, taken as an earlier build wrote it; `fresh` hears of each part written
- * here. remark joins a root's blocks with a blank line, and a part begins
- * with a heading, which nothing before it changes, so the parts joined by a
- * blank line are the whole document's bytes (test/pack/parts.test.ts).
+ * index.md as UTF-8 bytes from the tree's parts (splitParts: the cover,
+ * then each level-2 heading with what follows it), each written alone or,
+ * where `known` has it, taken as an earlier build wrote it; `fresh` hears
+ * of each part written here. remark joins a root's blocks with a blank
+ * line, and a part begins with a heading, which nothing before it changes,
+ * so the parts joined by a blank line are the whole document's bytes
+ * (test/pack/parts.test.ts).
  */
-export function toMarkdownByParts(parts: readonly (readonly RootContent[])[], known: (i: number) => string | undefined, fresh: (i: number, md: string) => void): string {
-  const texts = parts.map((nodes, i) => {
+export function toMarkdownByParts(parts: readonly (readonly RootContent[])[], known: (i: number) => Uint8Array | undefined, fresh: (i: number, md: Uint8Array) => void): Uint8Array {
+  const chunks: Uint8Array[] = [];
+  parts.forEach((nodes, i) => {
     let md = known(i);
-    if (md === undefined) fresh(i, (md = processor.stringify({ type: 'root', children: [...nodes] })));
+    if (md === undefined) fresh(i, (md = encoder.encode(processor.stringify({ type: 'root', children: [...nodes] }))));
+    if (i > 0) chunks.push(BLANK_LINE);
     // Each part's text ends with the one line end a document ends with.
-    return md.slice(0, -1);
+    chunks.push(md.subarray(0, md.length - 1));
   });
-  return `${texts.join('\n\n')}\n`;
+  chunks.push(LINE_END);
+  return concatBytes(chunks);
 }
+
+const encoder = new TextEncoder();
+const BLANK_LINE = encoder.encode('\n\n');
+const LINE_END = encoder.encode('\n');

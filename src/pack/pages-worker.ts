@@ -25,6 +25,6 @@ parentPort!.on('message', async (message: PagesMessage) => {
   const pages = await writeTextPagesHere({ ...input, scenes: new Map([...sent, ...input.scenes]) });
   const charts = drawing ? await drawing : [];
   const reply = { ...pages, charts };
-  // Moved, not copied: a plant's SVGs are 66 MB, and a copy on each side raised the build's peak past 1 GiB.
-  parentPort!.postMessage(reply, [reply.md.buffer, reply.html.buffer, ...reply.charts.map((c) => c.svg.buffer)] as ArrayBuffer[]);
+  // Moved, not copied (the parts' new texts too): a plant's SVGs are 66 MB, and a copy on each side raised the build's peak past 1 GiB.
+  parentPort!.postMessage(reply, [reply.md.buffer, reply.html.buffer, ...reply.charts.map((c) => c.svg.buffer), ...reply.fresh.flatMap(([, t]) => [t.md.buffer, t.html.buffer])] as ArrayBuffer[]);
 });

@@ -29,10 +29,15 @@ export interface TextPagesInput {
 /** One part of the tree: its nodes to write, or its texts as an earlier build wrote them. */
 export type PagePart = { readonly nodes: readonly RootContent[] } | { readonly known: PartText };
 
-/** One part's index.md text and index.html body. */
+/**
+ * One part's index.md text and index.html body, as UTF-8 bytes: a
+ * rebuild's main thread reads a plant's worth of them from the cache and
+ * passes them on to the worker untouched, and bytes are copied in one move
+ * where strings would be made (and collected) on its heap.
+ */
 export interface PartText {
-  readonly md: string;
-  readonly html: string;
+  readonly md: Uint8Array;
+  readonly html: Uint8Array;
 }
 
 /** A standalone SVG as its file's bytes: moved, not copied, from the worker. */
@@ -60,7 +65,7 @@ const encoder = new TextEncoder();
 export const loadTextWriters = () => Promise.all([import('./html.ts'), import('./markdown.ts')]);
 
 export async function writeTextPagesHere(input: TextPagesInput): Promise<TextPages> {
-  const [{ toHtml }, { toMarkdown, toMarkdownByParts }] = await loadTextWriters();
+  const [{ toHtml, toHtmlByParts }, { toMarkdown, toMarkdownByParts }] = await loadTextWriters();
   const pageInput = { title: input.title, scenes: input.scenes, fonts: loadFonts() };
   const fresh: [number, PartText][] = [];
   let md: Uint8Array;
@@ -72,12 +77,12 @@ export async function writeTextPagesHere(input: TextPagesInput): Promise<TextPag
       const p = given[i]!;
       return 'known' in p ? p.known : undefined;
     };
-    // The tree of the parts to write (toHtml refuses parts of a tree with footnotes).
+    // The tree of the parts to write (toHtmlByParts refuses one with footnotes).
     const tree: Root = { type: 'root', children: nodes.flat() };
-    const freshMd = new Map<number, string>();
-    const freshHtml = new Map<number, string>();
-    md = encoder.encode(toMarkdownByParts(nodes, (i) => known(i)?.md, (i, t) => freshMd.set(i, t)));
-    html = encoder.encode(toHtml({ ...pageInput, tree }, { parts: { parts: nodes, known: (i) => known(i)?.html, fresh: (i, t) => freshHtml.set(i, t) } }));
+    const freshMd = new Map<number, Uint8Array>();
+    const freshHtml = new Map<number, Uint8Array>();
+    md = toMarkdownByParts(nodes, (i) => known(i)?.md, (i, t) => freshMd.set(i, t));
+    html = toHtmlByParts({ ...pageInput, tree }, { parts: nodes, known: (i) => known(i)?.html, fresh: (i, t) => freshHtml.set(i, t) });
     for (const [i, m] of freshMd) fresh.push([i, { md: m, html: freshHtml.get(i)! }]);
   } else {
     const tree = input.tree.whole;

@@ -8,7 +8,7 @@
 import fc from 'fast-check';
 import type { Root, RootContent } from 'mdast';
 import { describe, expect, it } from 'vitest';
-import { toHtml } from '../../src/pack/html.ts';
+import { toHtml, toHtmlByParts } from '../../src/pack/html.ts';
 import { toMarkdown, toMarkdownByParts } from '../../src/pack/markdown.ts';
 import { splitParts } from '../../src/pack/parts.ts';
 
@@ -29,6 +29,9 @@ const block: fc.Arbitrary<RootContent> = fc.oneof(
   fc.constant<RootContent>({ type: 'thematicBreak' }),
 );
 
+// Strict: bytes that are not UTF-8 fail the test rather than decode to replacement characters.
+const utf8 = new TextDecoder('utf-8', { fatal: true });
+
 describe('index.md and index.html by parts', () => {
   it('are the whole document’s bytes, whichever parts come from an earlier build', () => {
     fc.assert(
@@ -37,18 +40,18 @@ describe('index.md and index.html by parts', () => {
         const parts = splitParts(tree);
         expect(parts.flat()).toEqual(children);
         // An earlier build's texts, for the parts `reuse` picks.
-        const earlierMd = new Map<number, string>();
-        const earlierHtml = new Map<number, string>();
+        const earlierMd = new Map<number, Uint8Array>();
+        const earlierHtml = new Map<number, Uint8Array>();
         toMarkdownByParts(parts, () => undefined, (i, md) => earlierMd.set(i, md));
         // Font bytes only go into the page's @font-face; a byte each keeps 400 pages cheap.
         const input = { tree, title: 't', scenes: new Map(), fonts: { regular: new Uint8Array([1]), semibold: new Uint8Array([2]) } };
-        toHtml(input, { parts: { parts, known: () => undefined, fresh: (i, html) => earlierHtml.set(i, html) } });
+        toHtmlByParts(input, { parts, known: () => undefined, fresh: (i, html) => earlierHtml.set(i, html) });
         const fresh: number[] = [];
         const md = toMarkdownByParts(parts, (i) => (reuse[i] ? earlierMd.get(i) : undefined), (i) => fresh.push(i));
-        expect(md).toBe(toMarkdown(tree));
+        expect(utf8.decode(md)).toBe(toMarkdown(tree));
         expect(fresh).toEqual(parts.map((_, i) => i).filter((i) => !reuse[i]));
-        const html = toHtml(input, { parts: { parts, known: (i) => (reuse[i] ? earlierHtml.get(i) : undefined), fresh: () => {} } });
-        expect(html).toBe(toHtml(input, { whole: true }));
+        const html = toHtmlByParts(input, { parts, known: (i) => (reuse[i] ? earlierHtml.get(i) : undefined), fresh: () => {} });
+        expect(utf8.decode(html)).toBe(toHtml(input, { whole: true }));
       }),
       { numRuns: 400, seed: 20261202 },
     );
