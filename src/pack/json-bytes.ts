@@ -12,8 +12,9 @@ const CHUNK = 1 << 20;
 /**
  * A value already written: the bytes this module writes for it at the
  * indentation `indent` (kept from an earlier build), read when they are
- * reached and put into the document as they are. Only valid where the
- * value would be written at `indent`.
+ * reached and put into the document as they are (copied or handed on at
+ * once: the reader may reuse its buffer for the next). Only valid where
+ * the value would be written at `indent`.
  */
 export class WrittenJson {
   constructor(
