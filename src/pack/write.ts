@@ -4,7 +4,7 @@
  * reader never sees half a pack and a failed build leaves the previous one.
  */
 import { createHash } from 'node:crypto';
-import { closeSync, copyFileSync, existsSync, linkSync, mkdirSync, openSync, readdirSync, renameSync, rmSync, statSync, writeFileSync, writeSync } from 'node:fs';
+import { closeSync, constants, copyFileSync, existsSync, linkSync, mkdirSync, openSync, readdirSync, renameSync, rmSync, statSync, writeFileSync, writeSync } from 'node:fs';
 import path from 'node:path';
 
 export class OutputRefused extends Error {}
@@ -185,11 +185,13 @@ export function writePack(
       }
     };
     for (const [name, bytes] of files) put(name, bytes);
-    // Copied, not linked: a pack's file and the cache's must not be one file that an edit to either changes.
+    // Copied, not linked: a pack's file and the cache's must not be one file that an edit to either
+    // changes. Where the file system can clone (Btrfs, XFS), the copy is a clone that shares the
+    // blocks until either is written; elsewhere (ext4) it is a plain copy.
     for (const [name, { from }] of copies) {
       const target = path.join(temp, name);
       folderFor(target);
-      copyFileSync(path.join(out, from), target);
+      copyFileSync(path.join(out, from), target, constants.COPYFILE_FICLONE);
     }
     for (const [name, make] of extra) if (!(kept.has(name) && linked(name))) put(name, make());
     const hadOld = existsSync(out);
