@@ -6,11 +6,11 @@
  */
 import { spawn, spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
-import { appendFileSync, cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
+import { appendFileSync, cpSync, existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { discardPackFolder, fileSink, openPackFolder } from '../src/pack/write.ts';
+import { discardPackFolder, fileSink, fillFile, openPackFolder } from '../src/pack/write.ts';
 import { BIN, ROOT, cli, hashTree } from './helpers/cli.ts';
 
 const temp = mkdtempSync(path.join(tmpdir(), 'plumbline-atomic-'));
@@ -98,5 +98,37 @@ describe('the pack folder a build opens before it plans', () => {
     mkdirSync(kept);
     discardPackFolder(openPackFolder(path.join(kept, 'pack')));
     expect(readdirSync(kept)).toEqual([]);
+  });
+
+  it('leaves room for other files\' bytes, which fillFile copies in before it hashes the whole file', () => {
+    const source = path.join(temp, 'earlier.json');
+    // Over a megabyte, so that fillFile reads the written bytes back, and copies, in more than one turn.
+    const earlier = Buffer.from(Array.from({ length: 600_000 }, (_, i) => `${i % 97},`).join(''));
+    writeFileSync(source, earlier);
+    const folder = openPackFolder(path.join(temp, 'filled'));
+    const sink = fileSink(folder, 'summary.json');
+    const head = Buffer.from('{"a": [');
+    const middle = Buffer.from('"ünïcode", ');
+    const tail = Buffer.from('1]}\n'.repeat(400_000));
+    sink.write(head);
+    sink.copy({ file: source, start: 10, end: 1_100_000 });
+    sink.write(middle);
+    sink.copy({ file: source, start: 0, end: 5 });
+    sink.write(tail);
+    const unfilled = sink.close();
+    // The expected file, joined here from the same pieces; its hashes from Node's crypto module.
+    const expected = Buffer.concat([head, earlier.subarray(10, 1_100_000), middle, earlier.subarray(0, 5), tail]);
+    expect('fill' in unfilled && unfilled.bytes).toBe(expected.length);
+    if (!('fill' in unfilled)) throw new Error('no room was left');
+    expect(fillFile(unfilled.fill)).toEqual({
+      bytes: expected.length,
+      sha256: createHash('sha256').update(expected).digest('hex'),
+      sha1: createHash('sha1').update(expected).digest('hex'),
+    });
+    expect(readFileSync(path.join(folder.temp, 'summary.json')).equals(expected)).toBe(true);
+    // A source that has shrunk since is an error, not a file with a hole in it.
+    writeFileSync(source, earlier.subarray(0, 1000));
+    expect(() => fillFile(unfilled.fill)).toThrow(/changed during the build/);
+    discardPackFolder(folder);
   });
 });

@@ -5,6 +5,7 @@
  * entry is redone, never trusted; the number of threads never changes a
  * byte. Expected outputs are the cold builds themselves, made without cache.
  */
+import { createHash } from 'node:crypto';
 import { cpSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
@@ -207,6 +208,24 @@ describe('threads', () => {
     const a = hashTree(one);
     expect(Object.keys(a).filter((f) => f.endsWith('.svg'))).toHaveLength(19);
     expect(hashTree(two)).toEqual(a);
+  }, 180_000);
+
+  it('fills a rebuild\'s summary.json from the previous one alike on one thread (here) and on two (the pages worker)', () => {
+    const cold = path.join(temp, 'fill-cold');
+    expect(cli('build', path.join(ROOT, 'data/demo'), '--out', cold, '--jobs', '1', '--no-cache', '-q').code).toBe(0);
+    const expected = readFileSync(path.join(cold, 'summary.json'));
+    for (const jobs of ['1', '2']) {
+      const out = path.join(temp, `fill-${jobs}`);
+      expect(cli('build', path.join(ROOT, 'data/demo'), '--out', out, '--jobs', jobs, '-q').code).toBe(0);
+      // The second build takes every characteristic's part of summary.json from the first's.
+      expect(json(cli('build', path.join(ROOT, 'data/demo'), '--out', out, '--jobs', jobs, '--json')).cache).toEqual({ reused: 19, redone: 0 });
+      const made = readFileSync(path.join(out, 'summary.json'));
+      expect(made.equals(expected)).toBe(true);
+      // The manifest lists the file's size and SHA-256 (hashed here), and verify agrees.
+      const manifest = JSON.parse(readFileSync(path.join(out, 'manifest.json'), 'utf8')) as { outputs: { path: string; bytes: number; sha256: string }[] };
+      expect(manifest.outputs.find((o) => o.path === 'summary.json')).toEqual({ path: 'summary.json', bytes: made.length, sha256: createHash('sha256').update(made).digest('hex') });
+      expect(cli('verify', out).code).toBe(0);
+    }
   }, 180_000);
 
   it('refuses a --jobs that is not a whole number from 1 to 256', () => {

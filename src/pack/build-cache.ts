@@ -21,6 +21,7 @@ import type { Assessment } from '../analyse.ts';
 import type { IsoDate } from '../model.ts';
 import type { LaidOutPart, Paper } from './pdf.ts';
 import type { PartText } from './text-pages.ts';
+import type { FileRange } from './write.ts';
 import { TOOL } from '../version.ts';
 import type { CharacteristicInput, Workspace } from '../workspace/load.ts';
 
@@ -233,11 +234,11 @@ const isSummaryIndex = (v: unknown): v is SummaryIndex =>
   typeof v === 'object' && v !== null && Number.isSafeInteger((v as SummaryIndex).bytes) && typeof (v as SummaryIndex).sha1 === 'string' && (v as SummaryIndex).pieces instanceof Map;
 
 /**
- * Reads a piece of summary.json, by cache key, as the bytes to put into the
- * new one: valid until the next piece is read (every piece is read into the
- * same buffer; the JSON writers copy or write each at once).
+ * A piece of summary.json, by cache key: where it is, and its bytes, read
+ * when asked for and valid until the next piece is read (every piece is
+ * read into the same buffer; the JSON writers copy or write each at once).
  */
-export type SummaryPieces = (key: string) => (() => Uint8Array) | undefined;
+export type SummaryPieces = (key: string) => { readonly from: FileRange; readonly read: () => Uint8Array } | undefined;
 
 /**
  * The parts of the summary.json in `packDir` that its index names, if the
@@ -270,11 +271,14 @@ export function openSummaryPieces(packDir: string): SummaryPieces {
     const range = index.pieces.get(key);
     if (!range || range[0] < 0 || range[1] > index.bytes || range[0] > range[1]) return undefined;
     if (!(valid ??= check())) return undefined;
-    return () => {
-      const length = range[1] - range[0];
-      // One buffer for every piece: a fresh one each time took 80–200 ms more for a plant's 86 MB (its pages are new).
-      if (scratch.length < length) scratch = new Uint8Array(Math.max(length, scratch.length * 2));
-      return readRange(file, range[0], scratch.subarray(0, length));
+    return {
+      from: { file, start: range[0], end: range[1] },
+      read: () => {
+        const length = range[1] - range[0];
+        // One buffer for every piece: a fresh one each time took 80–200 ms more for a plant's 86 MB (its pages are new).
+        if (scratch.length < length) scratch = new Uint8Array(Math.max(length, scratch.length * 2));
+        return readRange(file, range[0], scratch.subarray(0, length));
+      },
     };
   };
 }

@@ -5,6 +5,7 @@
  * held whole. The output is byte for byte what JSON.stringify would write.
  */
 import { LazyList } from '../lazy-list.ts';
+import type { FileRange } from './write.ts';
 
 const encoder = new TextEncoder();
 const CHUNK = 1 << 20;
@@ -20,6 +21,8 @@ export class WrittenJson {
   constructor(
     readonly bytes: () => Uint8Array,
     readonly indent: string,
+    /** Where the bytes are, for a writer that copies them from there itself (jsonChunks' `copy`): never read here then. */
+    readonly from?: FileRange,
   ) {}
 }
 
@@ -149,7 +152,7 @@ export function jsonBytes(value: unknown, layout: JsonLayout = {}): Uint8Array {
 /** Where the document goes: text to encode, bytes to copy, and how many bytes it holds so far. */
 interface ByteWriter {
   text(text: string): void;
-  bytes(bytes: Uint8Array): void;
+  bytes(bytes: WrittenJson): void;
   offset(): number;
 }
 
@@ -166,7 +169,7 @@ function documentChunks(value: unknown, layout: JsonLayout, chunk: number, out: 
       if (buffer.length >= chunk) flush();
     } else if (p instanceof WrittenJson) {
       flush();
-      out.bytes(p.bytes());
+      out.bytes(p);
     } else {
       flush();
       p.here(out.offset());
@@ -179,8 +182,10 @@ function documentChunks(value: unknown, layout: JsonLayout, chunk: number, out: 
  * The bytes jsonBytes would give, handed to `sink` a piece at a time
  * through one buffer that is reused: for a file written as it is made, so
  * that none of it is held. Each piece is only valid until `sink` returns.
+ * With `copy`, a written value that says where its bytes are is handed to
+ * it instead, unread.
  */
-export function jsonChunks(value: unknown, layout: JsonLayout, sink: (bytes: Uint8Array) => void, chunk = CHUNK): void {
+export function jsonChunks(value: unknown, layout: JsonLayout, sink: (bytes: Uint8Array) => void, chunk = CHUNK, copy?: (from: FileRange) => void): void {
   // UTF-8 takes at most three bytes per UTF-16 unit; a longer text is encoded in turns.
   const buffer = new Uint8Array(chunk * 3);
   let total = 0;
@@ -195,7 +200,13 @@ export function jsonChunks(value: unknown, layout: JsonLayout, sink: (bytes: Uin
         rest = rest.slice(read);
       }
     },
-    bytes(bytes) {
+    bytes(written) {
+      if (copy && written.from) {
+        copy(written.from);
+        total += written.from.end - written.from.start;
+        return;
+      }
+      const bytes = written.bytes();
       sink(bytes);
       total += bytes.length;
     },
@@ -226,7 +237,8 @@ class GrowingBytes implements ByteWriter {
     this.length += written;
   }
 
-  bytes(bytes: Uint8Array): void {
+  bytes(written: WrittenJson): void {
+    const bytes = written.bytes();
     if (this.length + bytes.length > GrowingBytes.MAX) throw new RangeError(`a JSON document over ${GrowingBytes.MAX} bytes`);
     this.room(this.length + bytes.length);
     new Uint8Array(this.buffer, this.length, bytes.length).set(bytes);

@@ -1,11 +1,12 @@
 /**
  * The worker side of `startPagesWorker`: index.md and index.html, by the
- * same function the main thread would call, so the bytes are the same; and
- * the standalone SVGs, from the moment they are sent.
+ * same function the main thread would call, so the bytes are the same; the
+ * standalone SVGs, from the moment they are sent; and a file to fill.
  */
 import { parentPort } from 'node:worker_threads';
 import type { Scene } from '../render/scene/types.ts';
-import { type PagesMessage, type SvgFile, drawSvgFiles, loadTextWriters, writeTextPagesHere } from './text-pages.ts';
+import { type PagesMessage, type PagesReply, type SvgFile, drawSvgFiles, loadTextWriters, writeTextPagesHere } from './text-pages.ts';
+import { fillFile } from './write.ts';
 
 // Load the writers now, while the main thread analyses; the message comes later.
 void loadTextWriters();
@@ -14,6 +15,16 @@ let drawing: Promise<SvgFile[]> | undefined;
 const sent = new Map<string, Scene>();
 
 parentPort!.on('message', async (message: PagesMessage) => {
+  if ('fill' in message) {
+    let reply: PagesReply;
+    try {
+      reply = { filled: fillFile(message.fill) };
+    } catch (e) {
+      reply = { fillFailed: e instanceof Error ? e.message : String(e) };
+    }
+    parentPort!.postMessage(reply);
+    return;
+  }
   if ('charts' in message) {
     for (const job of message.charts) sent.set(job.id, job.scene);
     drawing = drawSvgFiles(message.charts);
@@ -25,6 +36,7 @@ parentPort!.on('message', async (message: PagesMessage) => {
   const pages = await writeTextPagesHere({ ...input, scenes: new Map([...sent, ...input.scenes]) });
   const charts = drawing ? await drawing : [];
   const reply = { ...pages, charts };
+  const answer: PagesReply = { pages: reply };
   // Moved, not copied (the parts' new texts too): a plant's SVGs are 66 MB, and a copy on each side raised the build's peak past 1 GiB.
-  parentPort!.postMessage(reply, [reply.md.buffer, reply.html.buffer, ...reply.charts.map((c) => c.svg.buffer), ...reply.fresh.flatMap(([, t]) => [t.md.buffer, t.html.buffer])] as ArrayBuffer[]);
+  parentPort!.postMessage(answer, [reply.md.buffer, reply.html.buffer, ...reply.charts.map((c) => c.svg.buffer), ...reply.fresh.flatMap(([, t]) => [t.md.buffer, t.html.buffer])] as ArrayBuffer[]);
 });

@@ -12,6 +12,7 @@ import { loadFonts } from '../render/fonts.ts';
 import { type ChartJob, drawCharts } from '../render/pool/chart-pool.ts';
 import type { Scene } from '../render/scene/types.ts';
 import { workerEntry } from '../worker-entry.ts';
+import type { FillJob, SunkFile } from './write.ts';
 
 export interface TextPagesInput {
   /**
@@ -95,11 +96,20 @@ export async function writeTextPagesHere(input: TextPagesInput): Promise<TextPag
 /** The standalone SVG files of `jobs`, drawn in this thread. */
 export const drawSvgFiles = async (jobs: readonly ChartJob[]): Promise<SvgFile[]> => (await drawCharts(jobs, 0)).map((r) => ({ id: r.id, svg: encoder.encode(r.svg) }));
 
-/** What the worker is sent: first, optionally, the SVGs to draw (as soon as their scenes are made), then the pages. */
-export type PagesMessage = { readonly charts: readonly ChartJob[] } | { readonly pages: TextPagesInput };
+/**
+ * What the worker is sent: optionally, a file to fill (a rebuild's
+ * summary.json) and the SVGs to draw (as soon as their scenes are made),
+ * then the pages.
+ */
+export type PagesMessage = { readonly fill: FillJob } | { readonly charts: readonly ChartJob[] } | { readonly pages: TextPagesInput };
+
+/** What the worker answers: the filled file, or the pages (with the SVGs), or why either failed. */
+export type PagesReply = { readonly filled: SunkFile } | { readonly fillFailed: string } | { readonly pages: TextPages };
 
 /** A worker for the pages: `draw` hands it SVGs to draw, `run` the pages to write, `stop` ends it (unused or not). */
 export interface PagesWorker {
+  /** Fills a file's room from the files it names and hashes it (fillFile), beside what this thread does next. */
+  fill(job: FillJob): Promise<SunkFile>;
   /**
    * Standalone SVGs for the worker to draw at once, before the pages come:
    * a plant's drawing then starts while this thread still builds the tree.
@@ -117,19 +127,37 @@ export interface PagesWorker {
  */
 export function startPagesWorker(): PagesWorker {
   const worker = new Worker(workerEntry(import.meta.url, 'pages-worker'));
-  let failed: Error | undefined;
-  const early = (e: Error) => (failed = e);
-  worker.on('error', early);
   const stop = () => void worker.terminate();
+  // Each request waits for its own reply; the worker answers the fill before the pages (it takes
+  // its messages in order, and fills at once).
+  let filled: { resolve: (f: SunkFile) => void; reject: (e: Error) => void } | undefined;
+  let pages: { resolve: (p: TextPages) => void; reject: (e: Error) => void } | undefined;
+  let failed: Error | undefined;
+  const fail = (e: Error) => {
+    failed ??= e;
+    filled?.reject(e);
+    pages?.reject(e);
+    filled = pages = undefined;
+  };
+  worker.on('error', fail);
+  worker.on('exit', (code) => fail(new Error(`the page worker stopped (exit code ${code})`)));
+  worker.on('message', (reply: PagesReply) => {
+    if ('filled' in reply) filled?.resolve(reply.filled);
+    else if ('fillFailed' in reply) filled?.reject(new Error(reply.fillFailed));
+    else pages?.resolve(reply.pages);
+  });
   return {
+    fill: (job) =>
+      new Promise<SunkFile>((resolve, reject) => {
+        if (failed) return reject(failed);
+        filled = { resolve, reject };
+        worker.postMessage({ fill: job } satisfies PagesMessage);
+      }),
     draw: (charts) => worker.postMessage({ charts } satisfies PagesMessage),
     run: (input) =>
       new Promise<TextPages>((resolve, reject) => {
         if (failed) return reject(failed);
-        worker.off('error', early);
-        worker.once('message', (pages: TextPages) => resolve(pages));
-        worker.once('error', reject);
-        worker.once('exit', (code) => reject(new Error(`the page worker stopped (exit code ${code})`)));
+        pages = { resolve, reject };
         worker.postMessage({ pages: input } satisfies PagesMessage);
       }).finally(stop),
     stop,
