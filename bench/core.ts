@@ -11,6 +11,7 @@
 import { analyse, computePanels } from '../src/analyse.ts';
 import type { IsoDate, ReviewConfig, Sample } from '../src/model.ts';
 import { normalFrom, seeded } from '../src/stats/random.ts';
+import { peakMiB } from './peak.mjs';
 
 const fmtMs = (t: number) => (t >= 1000 ? `${(t / 1000).toFixed(2)} s` : `${t.toFixed(0)} ms`);
 const line = (label: string, value: string) => console.log(`${label.padEnd(44)} ${value}`);
@@ -58,4 +59,4 @@ for (const pass of ['first pass', 'second pass']) {
   const what = stage === 'panels' ? 'statistics + signals (limits, rules; computePanels)' : 'whole analysis (+ evidence, recommendation)';
   line(`${what}, ${CORE} × ${CORE} points, ${pass}`, `${fmtMs(tCore)} (${signals} signals)`);
 }
-line(`peak resident memory of the core process (${stage})`, `${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MiB`);
+line(`peak resident memory of the core process (${stage})`, `${peakMiB().toFixed(0)} MiB`);

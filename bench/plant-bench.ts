@@ -32,6 +32,7 @@ import { LabelPaths, renderStandaloneSvg } from '../src/render/svg-satori.ts';
 import { inlineSvg } from '../src/render/svg-inline.ts';
 import { loadWorkspace } from '../src/workspace/load.ts';
 import { measure } from './child.ts';
+import { peakMiB } from './peak.mjs';
 import { writePlant } from './plant.ts';
 
 const N = Number(process.env.BENCH_CHARACTERISTICS ?? 1000);
@@ -140,4 +141,4 @@ for (const stage of ['panels', 'whole']) {
   if (core.status !== 0) throw new Error(`bench/core.ts failed:\n${core.stderr}`);
   process.stdout.write(core.stdout);
 }
-line('peak resident memory of this process', `${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MiB`);
+line('peak resident memory of this process', `${peakMiB().toFixed(0)} MiB`);

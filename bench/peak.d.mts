@@ -1,0 +1,2 @@
+/** This process's peak resident memory in MiB (see peak.mjs). */
+export declare function peakMiB(): number;
