@@ -18,7 +18,6 @@
 import { spawnSync } from 'node:child_process';
 import { readFileSync, readdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
-import { toHtml as hast } from 'hast-util-to-html';
 import { planSummary } from '../src/assess.ts';
 import { loadFonts } from '../src/render/fonts.ts';
 import { fontkit } from '../src/render/fontkit.ts';
@@ -118,7 +117,7 @@ for (const a of sample) {
   const svg = await renderStandaloneSvg(scene, fonts, shared);
   times['svg (satori, labels cached)'].push(performance.now() - s);
   s = performance.now();
-  hast(inlineSvg(scene, 'c'));
+  inlineSvg(scene, 'c');
   times['inline svg (html)'].push(performance.now() - s);
   s = performance.now();
   svgToPng(svg, [fonts.regularPath, fonts.semiboldPath], scene.width * 2);

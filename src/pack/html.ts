@@ -53,7 +53,8 @@ function pageParts(input: HtmlInput) {
         const id = node.data?.chartId;
         const scene = id ? input.scenes.get(id) : undefined;
         if (!scene || !id) return state.all(node) as unknown as Element;
-        return el('figure', { className: ['chart'] }, [inlineSvg(scene, `chart-${id}`)]);
+        // The chart's markup as it is (see svg-inline.ts): the one raw node in the page.
+        return el('figure', { className: ['chart'] }, [{ type: 'raw', value: inlineSvg(scene, `chart-${id}`) }]);
       },
       // Links inside the pack go to sections; anything else stays text, so nothing in the page points outside it.
       link(state, node) {
@@ -62,7 +63,9 @@ function pageParts(input: HtmlInput) {
       },
     },
   });
-  const toText = unified().use(rehypeStringify);
+  // Raw nodes are written as they are: only the charts' markup makes them. remark-rehype is not told
+  // to allow HTML, so raw HTML from a template or the data is dropped before it gets here.
+  const toText = unified().use(rehypeStringify, { allowDangerousHtml: true });
   const css = `${fontFace(input.fonts.regular, 400)}\n${fontFace(input.fonts.semibold, 600)}\n${PACK_CSS}`;
   const doc: HastRoot = {
     type: 'root',

@@ -21,7 +21,8 @@
  * the same bytes in every build.
  */
 import satori from 'satori';
-import { compactPath, compactTenths, geom } from '../format.ts';
+import { compactTenths, geom } from '../format.ts';
+import { compactPathOf } from './path-data.ts';
 import { FONT_FAMILY } from './fonts.ts';
 import { type FontkitFont, shapingFontkit } from './fontkit.ts';
 import type { Primitive, Scene } from './scene/types.ts';
@@ -253,7 +254,7 @@ function geometryElement(p: Geometry): string {
   const stroke = p.stroke
     ? ` stroke="${escapeXml(p.stroke.paint)}" stroke-width="${p.stroke.width}"${p.stroke.dash ? ` stroke-dasharray="${p.stroke.dash.join(' ')}"` : ''}`
     : '';
-  return `<path d="${escapeXml(compactPath(p.d))}" fill="${escapeXml(p.fill ?? 'none')}"${stroke}${p.opacity !== undefined ? ` opacity="${p.opacity}"` : ''}/>`;
+  return `<path d="${escapeXml(compactPathOf(p))}" fill="${escapeXml(p.fill ?? 'none')}"${stroke}${p.opacity !== undefined ? ` opacity="${p.opacity}"` : ''}/>`;
 }
 
 function labelElement(p: Text, labels: LabelPaths): string {

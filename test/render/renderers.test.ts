@@ -8,7 +8,6 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { inflateSync } from 'node:zlib';
-import { toHtml as hastToHtml } from 'hast-util-to-html';
 import { PDFDocument } from 'pdf-lib';
 import { afterAll, describe, expect, it } from 'vitest';
 import { fontkit, shapingFontkit } from '../../src/render/fontkit.ts';
@@ -180,7 +179,7 @@ describe('standalone SVG: labels laid out once and reused', () => {
 
 describe('inline SVG (HTML pack)', () => {
   it('keeps every label as a <text> element with the scene’s words, escaped', () => {
-    const html = hastToHtml(inlineSvg(scene, 'chart-x'));
+    const html = inlineSvg(scene, 'chart-x');
     const found = [...html.matchAll(/<text[^>]*>([^<]*)<\/text>/g)].map((m) => m[1]);
     expect(found).toHaveLength(texts(scene).length);
     expect(found.filter((t) => /^UCL \d+\.\d+$/.test(t!))).toHaveLength(2);
