@@ -195,7 +195,12 @@ describe('index.html, written one top-level block at a time', () => {
   });
   it('blocks that make nothing (raw HTML, dropped) leave no blank lines behind; a lone block, an empty tree', () => {
     const p = (value: string): Paragraph => ({ type: 'paragraph', children: [{ type: 'text', value }] });
-    same({ type: 'root', children: [p('a'), { type: 'html', value: '<b>x</b>' }, { type: 'html', value: '<i>y</i>' }, p('b'), { type: 'thematicBreak' }, { type: 'blockquote', children: [p('c')] }, { type: 'html', value: '<u>' }] });
+    const withRaw: Root = { type: 'root', children: [p('a'), { type: 'html', value: '<b>x</b>' }, { type: 'html', value: '<i>y</i>' }, p('b'), { type: 'thematicBreak' }, { type: 'blockquote', children: [p('c')] }, { type: 'html', value: '<u>' }] };
+    same(withRaw);
+    // Dropped, not written: the page writes raw nodes as they are (the charts' markup), so raw HTML
+    // from a template must never become one.
+    const page = toHtml({ tree: withRaw, title: 'Pack', scenes, fonts });
+    for (const raw of ['<b>', '<i>', '<u>']) expect(page).not.toContain(raw);
     same({ type: 'root', children: [p('only')] });
     same({ type: 'root', children: [] });
   });
