@@ -118,8 +118,8 @@ describe('the pack folder a build opens before it plans', () => {
     const unfilled = sink.close();
     // The expected file, joined here from the same pieces; its hashes from Node's crypto module.
     const expected = Buffer.concat([head, earlier.subarray(10, 1_100_000), middle, earlier.subarray(0, 5), tail]);
-    expect('fill' in unfilled && unfilled.bytes).toBe(expected.length);
     if (!('fill' in unfilled)) throw new Error('no room was left');
+    expect(unfilled.fill.bytes).toBe(expected.length);
     expect(fillFile(unfilled.fill)).toEqual({
       bytes: expected.length,
       sha256: createHash('sha256').update(expected).digest('hex'),

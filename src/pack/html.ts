@@ -44,6 +44,7 @@ export interface HtmlParts {
 }
 
 const encoder = new TextEncoder();
+const NEWLINE = encoder.encode('\n');
 
 /** The page's two ends around its body, and the writer of a run of top-level blocks. */
 function pageParts(input: HtmlInput) {
@@ -144,6 +145,3 @@ export function toHtmlByParts(input: HtmlInput, parts: HtmlParts): Uint8Array {
   chunks.push(encoder.encode(page.after));
   return concatBytes(chunks);
 }
-
-const NEWLINE = new Uint8Array([0x0a]);
-

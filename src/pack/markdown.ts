@@ -7,6 +7,9 @@ import { unified } from 'unified';
 import { concatBytes } from './bytes.ts';
 
 const ZWSP = '\u200b';
+const encoder = new TextEncoder();
+const BLANK_LINE = encoder.encode('\n\n');
+const LINE_END = encoder.encode('\n');
 
 /**
  * GFM turns bare URLs, www. addresses and e-mail addresses in text into
@@ -85,7 +88,3 @@ export function toMarkdownByParts(parts: readonly (readonly RootContent[])[], kn
   chunks.push(LINE_END);
   return concatBytes(chunks);
 }
-
-const encoder = new TextEncoder();
-const BLANK_LINE = encoder.encode('\n\n');
-const LINE_END = encoder.encode('\n');

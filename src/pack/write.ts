@@ -137,7 +137,6 @@ export interface FileRange {
 
 /** A sunk file with room left for other files' bytes: `fillFile(fill)` copies them in and hashes it. */
 export interface UnfilledFile {
-  readonly bytes: number;
   readonly fill: FillJob;
 }
 
@@ -169,7 +168,7 @@ export function fileSink(folder: PackFolder, name: string): FileSink {
     },
     close() {
       closeSync(fd);
-      if (holes.length > 0) return { bytes, fill: { file: target, bytes, holes } };
+      if (holes.length > 0) return { fill: { file: target, bytes, holes } };
       return { bytes, sha256: hash.digest('hex'), sha1: check.digest('hex') };
     },
   };
