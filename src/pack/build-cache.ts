@@ -21,7 +21,7 @@ import type { Assessment } from '../analyse.ts';
 import type { IsoDate } from '../model.ts';
 import type { LaidOutPart, Paper } from './pdf.ts';
 import type { PartText } from './text-pages.ts';
-import type { FileRange } from './write.ts';
+import { type FileRange, readExactly } from './write.ts';
 import { TOOL } from '../version.ts';
 import type { CharacteristicInput, Workspace } from '../workspace/load.ts';
 
@@ -299,11 +299,7 @@ function digestOfFile(file: string, algorithm: string): string {
 function readRange(file: string, start: number, out: Uint8Array): Uint8Array {
   const fd = openSync(file, 'r');
   try {
-    for (let done = 0; done < out.length; ) {
-      const n = readSync(fd, out, done, out.length - done, start + done);
-      if (n === 0) throw new Error(`${file} changed during the build; build again`);
-      done += n;
-    }
+    readExactly(fd, file, out, start);
   } finally {
     closeSync(fd);
   }

@@ -175,6 +175,18 @@ export function fileSink(folder: PackFolder, name: string): FileSink {
 }
 
 /**
+ * Fills `out` from the open file `fd` (named `file`), from byte `at` on. A
+ * file that ends first has changed since the build looked at it: an error.
+ */
+export function readExactly(fd: number, file: string, out: Uint8Array, at: number): void {
+  for (let done = 0; done < out.length; ) {
+    const n = readSync(fd, out, done, out.length - done, at + done);
+    if (n === 0) throw new Error(`${file} changed during the build; build again`);
+    done += n;
+  }
+}
+
+/**
  * Copies each range of `job` into its room in the file, and hashes the
  * file from start to end (what the sink wrote is read back for it). A
  * source shorter than its range (changed since the build began) is an
@@ -187,19 +199,12 @@ export function fillFile(job: FillJob): SunkFile {
   const sources = new Map<string, number>();
   let buffer = new Uint8Array(1 << 20);
   const room = (n: number) => (buffer.length < n ? (buffer = new Uint8Array(Math.max(n, buffer.length * 2))) : buffer).subarray(0, n);
-  const readFully = (from: number, file: string, out: Uint8Array, at: number) => {
-    for (let done = 0; done < out.length; ) {
-      const n = readSync(from, out, done, out.length - done, at + done);
-      if (n === 0) throw new Error(`${file} changed during the build; build again`);
-      done += n;
-    }
-  };
   const hashed = (bytes: Uint8Array) => (hash.update(bytes), check.update(bytes));
   // What the sink wrote between `start` and `end`, read back in turns.
   const hashWritten = (start: number, end: number) => {
     for (let at = start; at < end; ) {
       const chunk = room(Math.min(1 << 20, end - at));
-      readFully(fd, job.file, chunk, at);
+      readExactly(fd, job.file, chunk, at);
       hashed(chunk);
       at += chunk.length;
     }
@@ -211,7 +216,7 @@ export function fillFile(job: FillJob): SunkFile {
       let source = sources.get(hole.from.file);
       if (source === undefined) sources.set(hole.from.file, (source = openSync(hole.from.file, 'r')));
       const bytes = room(hole.from.end - hole.from.start);
-      readFully(source, hole.from.file, bytes, hole.from.start);
+      readExactly(source, hole.from.file, bytes, hole.from.start);
       for (let done = 0; done < bytes.length; ) done += writeSync(fd, bytes, done, bytes.length - done, hole.at + done);
       hashed(bytes);
       at = hole.at + bytes.length;

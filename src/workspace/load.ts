@@ -66,9 +66,12 @@ function readBytes(file: string): { bytes: Uint8Array; problem?: undefined } | {
   }
 }
 
+/** A file's bytes as text; malformed UTF-8 is decoded as U+FFFD, not refused (as before). */
+const decode = (bytes: Uint8Array) => new TextDecoder('utf-8', { fatal: false }).decode(bytes);
+
 function readText(file: string): { text?: string; bytes?: Uint8Array; problem?: string } {
   const read = readBytes(file);
-  return read.bytes ? { bytes: read.bytes, text: new TextDecoder('utf-8', { fatal: false }).decode(read.bytes) } : { problem: read.problem };
+  return read.bytes ? { bytes: read.bytes, text: decode(read.bytes) } : { problem: read.problem };
 }
 
 type ReadFromData = Pick<CharacteristicInput, 'characteristic' | 'samples' | 'laterLabels' | 'diagnostics'>;
@@ -181,7 +184,7 @@ export function loadWorkspace(dir: string, options: LoadOptions = {}): LoadResul
     inputs.set(c.data, file.bytes);
     const bytes = file.bytes;
     return onFirstUse({ ...fixed, data: { bytes } }, () => {
-      const read = readDataFile(new TextDecoder('utf-8', { fatal: false }).decode(bytes), c, config.period.to);
+      const read = readDataFile(decode(bytes), c, config.period.to);
       const inside = read.samples.filter((s) => s.date <= config.period.to);
       const later = read.samples.filter((s) => s.date > config.period.to);
       const own = [...read.diagnostics, ...ledgerDiagnostics];
