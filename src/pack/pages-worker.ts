@@ -7,9 +7,10 @@ import { parentPort } from 'node:worker_threads';
 import type { Scene } from '../render/scene/types.ts';
 import { type PagesMessage, type PagesReply, type SvgFile, drawSvgFiles, loadTextWriters, writeTextPagesHere } from './text-pages.ts';
 import { fillFile } from './write.ts';
+import { loadChartDrawing } from '../render/pool/chart-pool.ts';
 
-// Load the writers now, while the main thread analyses; the message comes later.
-void loadTextWriters();
+// Load the chart drawing and the writers now, while the main thread analyses; the messages come later.
+void loadChartDrawing().then(loadTextWriters);
 
 let drawing: Promise<SvgFile[]> | undefined;
 const sent = new Map<string, Scene>();

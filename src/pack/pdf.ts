@@ -16,7 +16,7 @@
  */
 import { deflateSync } from 'node:zlib';
 import type { Code, Heading, List, PhrasingContent, Root, RootContent, Table } from 'mdast';
-import { PDFDocument, PDFName, PDFPageLeaf, type PDFRef, rgb } from 'pdf-lib';
+import { PDFDocument, PDFName, PDFPageLeaf, type PDFRef, rgb } from '../render/pdf-lib.ts';
 import { fontkit } from '../render/fontkit.ts';
 import { type PdfFaces, drawScene } from '../render/pdf-chart.ts';
 import { useNativeDeflate } from '../render/pdf-deflate.ts';

@@ -11,7 +11,7 @@
  * before a combining mark), from the text they were shaped from.
  */
 import { deflateSync } from 'node:zlib';
-import { type PDFDocument, PDFNumber, type PDFRef, PDFString } from 'pdf-lib';
+import { type PDFDocument, PDFNumber, type PDFRef, PDFString } from './pdf-lib.ts';
 import type { FontkitFont } from './fontkit.ts';
 
 const KEEP = new Set(['head', 'hhea', 'loca', 'maxp', 'cvt ', 'prep', 'glyf', 'hmtx', 'fpgm', 'OS/2', 'name']);

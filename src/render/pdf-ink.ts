@@ -11,7 +11,7 @@
  * Identity-H, CID = glyph number), which is what makes glyph numbers the
  * font's own.
  */
-import type { RGB } from 'pdf-lib';
+import type { RGB } from './pdf-lib.ts';
 import { decimalText } from '../format.ts';
 import type { FontkitFont } from './fontkit.ts';
 import { cmapText } from './pdf-font.ts';

@@ -25,6 +25,7 @@ import { compactTenths, geom } from '../format.ts';
 import { compactPathOf } from './path-data.ts';
 import { FONT_FAMILY } from './fonts.ts';
 import { type FontkitFont, shapingFontkit } from './fontkit.ts';
+import { pairRuns } from './pair-runs.ts';
 import type { Primitive, Scene } from './scene/types.ts';
 import { escapeXml } from './svg-inline.ts';
 
@@ -95,6 +96,8 @@ export class LabelPaths {
   private readonly outlines = new Map<string, Outline>();
   private readonly fonts: Parameters<typeof satori>[1]['fonts'];
   private readonly faces: Readonly<Record<Weight, FontkitFont>>;
+  /** Each face's layout of a label of figures, from its pairs (pair-runs.ts); undefined for other labels. */
+  private readonly figures: Readonly<Record<Weight, (text: string) => ReturnType<FontkitFont['layout']> | undefined>>;
 
   constructor(fonts: SatoriFonts) {
     // satori caches parsed fonts by buffer identity, so one list serves every call.
@@ -104,6 +107,8 @@ export class LabelPaths {
       { name: FONT_FAMILY, data: ab(fonts.semibold), weight: 600, style: 'normal' },
     ];
     this.faces = { 400: shapingFontkit.create(fonts.regular), 600: shapingFontkit.create(fonts.semibold) };
+    const figures = (face: FontkitFont) => pairRuns(face, face.layout.bind(face));
+    this.figures = { 400: figures(this.faces[400]), 600: figures(this.faces[600]) };
   }
 
   /** Labels known. */
@@ -152,7 +157,7 @@ export class LabelPaths {
     const whole = [{ unit: l.text, dx: 0, dy: 0 }];
     if (l.text === '' || /^\s|\s$|\s\s|[^\S ]/.test(l.text)) return whole;
     const face = this.faces[l.weight];
-    const run = face.layout(l.text);
+    const run = this.figures[l.weight](l.text) ?? face.layout(l.text);
     const scale = l.size / face.unitsPerEm;
     const placed: Placed[] = [];
     let pen = 0;

@@ -14,7 +14,6 @@ import { Worker } from 'node:worker_threads';
 import { loadFonts } from '../fonts.ts';
 import { svgToPng } from '../png.ts';
 import type { Scene } from '../scene/types.ts';
-import { labelPathsFor, renderStandaloneSvg } from '../svg-satori.ts';
 import { workerEntry } from '../../worker-entry.ts';
 
 export interface ChartJob {
@@ -38,7 +37,16 @@ const BATCH = 25;
 /** The labels of every chart in `jobs`. */
 export const labelsOf = (jobs: readonly ChartJob[]) => jobs.flatMap((j) => j.scene.items.filter((p) => p.kind === 'text'));
 
+/**
+ * satori and the SVG writer, loaded when charts are first drawn in this
+ * thread: a build whose charts are drawn on other threads never loads them
+ * here (0.2 s of the main thread's start); a thread that will draw may load
+ * them early, while it waits.
+ */
+export const loadChartDrawing = () => import('../svg-satori.ts');
+
 async function drawHere(jobs: readonly ChartJob[], onDone: (n: number) => void): Promise<ChartResult[]> {
+  const { labelPathsFor, renderStandaloneSvg } = await loadChartDrawing();
   const fonts = loadFonts();
   const out: ChartResult[] = [];
   // Every new label in a few large satori calls, not one call per chart.
