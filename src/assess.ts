@@ -18,20 +18,24 @@ export function assessAll(
   asOf: IsoDate,
   known: (index: number) => Assessment | undefined = () => undefined,
   progress: (done: number, total: number) => void = () => {},
+  assessed: (index: number, assessment: Assessment) => void = () => {},
 ): Assessment[] {
   return ws.characteristics.map((c, i) => {
     progress(i, ws.characteristics.length);
-    return known(i) ??
-    analyse({
-      config: ws.config,
-      characteristic: c.characteristic,
-      samples: c.samples,
-      laterLabels: c.laterLabels,
-      ledger: c.ledger,
-      ledgerFile: LEDGER_FILE,
-      diagnostics: c.diagnostics,
-      asOf,
-    });
+    const a =
+      known(i) ??
+      analyse({
+        config: ws.config,
+        characteristic: c.characteristic,
+        samples: c.samples,
+        laterLabels: c.laterLabels,
+        ledger: c.ledger,
+        ledgerFile: LEDGER_FILE,
+        diagnostics: c.diagnostics,
+        asOf,
+      });
+    assessed(i, a);
+    return a;
   });
 }
 
@@ -53,8 +57,10 @@ export function planSummary(
   previousLedger?: PreviousLedger,
   known?: (index: number) => Assessment | undefined,
   progress?: (done: number, total: number) => void,
+  /** Hears each assessment as it is made (or taken from `known`), in order: a build lays out its chart then. */
+  assessed?: (index: number, assessment: Assessment) => void,
 ) {
-  const assessments = assessAll(ws, asOf, known, progress);
+  const assessments = assessAll(ws, asOf, known, progress, assessed);
   const { rows, chain } = ledgerOf(ws);
   const integrity = checkHistory(chain, rows, previousLedger, asOf);
   const history: Diagnostic[] = integrity.rewrite

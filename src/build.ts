@@ -118,10 +118,17 @@ export const MAX_CACHED_POINTS = 100_000;
  * chart, and a plant's is hundreds of megabytes of heap that nothing after
  * this needs (its bytes live outside the heap), so it is not kept.
  */
-function summarise(ws: Workspace, asOf: IsoDate, options: PackOptions, known: (i: number) => Assessment | undefined, written: (i: number) => ReturnType<SummaryPieces>) {
+function summarise(
+  ws: Workspace,
+  asOf: IsoDate,
+  options: PackOptions,
+  known: (i: number) => Assessment | undefined,
+  written: (i: number) => ReturnType<SummaryPieces>,
+  assessed: (i: number, a: Assessment) => void,
+) {
   // Progress every 50 characteristics: a plant's analysis takes seconds.
   const progress = (done: number, total: number) => (done % 50 === 0 ? options.progress?.('analysis', done, total) : undefined);
-  const { summary, ...rest } = planSummary(ws, asOf, options.previousLedger, known, progress);
+  const { summary, ...rest } = planSummary(ws, asOf, options.previousLedger, known, progress, assessed);
   const record = comparisonRecord(summary);
   const since = options.previous ? compareSummaries(options.previous, record) : undefined;
   // A characteristic's part of summary.json is a function of what its cache key hashes: one from the
@@ -147,6 +154,9 @@ function summarise(ws: Workspace, asOf: IsoDate, options: PackOptions, known: (i
 
 /** A data file of more bytes than this (about 100,000 points) is a long series, for when the pages worker starts. */
 const LONG_SERIES_BYTES = 4 * 2 ** 20;
+
+/** Charts sent to the worker at a time while the analysis goes on: fewer messages, and satori lays out their labels together. */
+const DRAW_BATCH = 50;
 
 const hasLongSeries = (ws: Workspace) => ws.characteristics.some((c) => 'bytes' in c.data && c.data.bytes.length > LONG_SERIES_BYTES);
 
@@ -180,27 +190,8 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   const early = allowed > 1 && !hasLongSeries(ws) ? startWorker() : undefined;
   const keys = options.cache ? ws.characteristics.map((c) => cacheKey(ws, c, asOf)) : [];
   const hits = keys.map((k) => options.cache?.(k));
-  const { assessments, diagnostics, integrity, exitCode, summaryFile, summaryRanges, recordBytes, since } = summarise(
-    ws,
-    asOf,
-    options,
-    (i) => hits[i]?.entry.assessment,
-    (i) => (hits[i] ? options.summaryPieces?.(keys[i]!) : undefined),
-  );
-  lap('analysis and summary.json');
-  const pagesWorker = early ?? (allowed > 1 ? startWorker() : undefined);
-  // A rebuild's summary.json has room left for the previous one's parts: the worker copies them in
-  // and hashes the file while this thread goes on (a plant's: 0.4 s), or this thread does it now.
-  const summaryDone: Promise<SunkFile> | Uint8Array | SunkFile =
-    summaryFile instanceof Uint8Array || !('fill' in summaryFile) ? summaryFile : pagesWorker ? pagesWorker.fill(summaryFile.fill) : fillFile(summaryFile.fill);
-  // Waited for before the manifest; a failure meanwhile is reported there, not as an unhandled rejection.
-  if (summaryDone instanceof Promise) summaryDone.catch(() => {});
-  const inputs = entries(ws.inputs);
-  // One hash over the input hashes: the pack's fingerprint of what it was built from.
-  const fingerprint = sha256(encoder.encode(inputs.map((i) => `${i.sha256}  ${i.path}`).join('\n')));
   const fonts = loadFonts();
   const metrics = createTextMetrics(fonts);
-  const files = new Map<string, Uint8Array>();
 
   // Scenes here (every page needs them); charts from the cache are not drawn again, but copied from
   // it into the pack. A cached scene is read only where a page that draws it is laid out or written
@@ -217,7 +208,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   const copies = new Map<string, CopiedFile>();
   const jobs: ChartJob[] = [];
   let total = 0;
-  assessments.forEach((a, i) => {
+  const place = (a: Assessment, i: number) => {
     if (a.status !== 'assessed') return;
     total++;
     const id = a.characteristic.id;
@@ -231,8 +222,42 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
       copies.set(chartFile(id), { from: svg.path, ...svg.file });
       if (options.png && png) copies.set(pngFile(id), { from: png.path, ...png.file });
     } else jobs.push({ id, scene: sceneOf(id)!, png: options.png });
-  });
-  lap('scenes');
+  };
+  // With the worker already running, each chart is laid out as its characteristic is assessed and the
+  // worker draws its SVG then, beside the analysis: a plant's worker had idled through the analysis
+  // and was the longer path after it (1.3–1.9 s of waiting for it after the PDF).
+  const svgsOnPagesWorker = allowed > 1 && !options.png;
+  const pipelined = early !== undefined && svgsOnPagesWorker;
+  let sent = 0;
+  const send = (atLeast: number) => {
+    if (jobs.length - sent < atLeast || jobs.length === sent) return;
+    early!.draw(jobs.slice(sent));
+    sent = jobs.length;
+  };
+  const { assessments, diagnostics, integrity, exitCode, summaryFile, summaryRanges, recordBytes, since } = summarise(
+    ws,
+    asOf,
+    options,
+    (i) => hits[i]?.entry.assessment,
+    (i) => (hits[i] ? options.summaryPieces?.(keys[i]!) : undefined),
+    pipelined ? (i, a) => (place(a, i), send(DRAW_BATCH)) : () => {},
+  );
+  lap('analysis and summary.json');
+  const pagesWorker = early ?? (allowed > 1 ? startWorker() : undefined);
+  // A rebuild's summary.json has room left for the previous one's parts: the worker copies them in
+  // and hashes the file while this thread goes on (a plant's: 0.4 s), or this thread does it now.
+  const summaryDone: Promise<SunkFile> | Uint8Array | SunkFile =
+    summaryFile instanceof Uint8Array || !('fill' in summaryFile) ? summaryFile : pagesWorker ? pagesWorker.fill(summaryFile.fill) : fillFile(summaryFile.fill);
+  // Waited for before the manifest; a failure meanwhile is reported there, not as an unhandled rejection.
+  if (summaryDone instanceof Promise) summaryDone.catch(() => {});
+  const inputs = entries(ws.inputs);
+  // One hash over the input hashes: the pack's fingerprint of what it was built from.
+  const fingerprint = sha256(encoder.encode(inputs.map((i) => `${i.sha256}  ${i.path}`).join('\n')));
+  const files = new Map<string, Uint8Array>();
+  if (!pipelined) {
+    assessments.forEach(place);
+    lap('scenes');
+  }
   let done = total - jobs.length;
   options.progress?.('charts', done, total);
   // Threads. With two or more, index.md and index.html are written on a worker while this thread
@@ -242,9 +267,8 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   // pool of their own beside the PDF, or started early beside the analysis, SVGs slowed both down.
   // PNGs (resvg, about 50 ms a chart) go to a pool of their own beside the pages (300
   // characteristics: 39 s → 32 s).
-  const svgsOnPagesWorker = pagesWorker !== undefined && !options.png;
-  // The worker starts on the SVGs now, while this thread builds the tree.
-  if (svgsOnPagesWorker && jobs.length > 0) pagesWorker.draw(jobs);
+  // The worker starts on the SVGs now (the rest of them, when pipelined), while this thread builds the tree.
+  if (svgsOnPagesWorker && jobs.length > sent) pagesWorker!.draw(jobs.slice(sent));
   const charts = svgsOnPagesWorker ? undefined : drawCharts(jobs, options.png ? allowed - 1 : 0, (n) => options.progress?.('charts', (done += n), total));
   if (charts && !(options.png && allowed > 1)) {
     await charts;

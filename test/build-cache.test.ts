@@ -12,6 +12,7 @@ import path from 'node:path';
 import { deserialize } from 'node:v8';
 import { afterAll, describe, expect, it } from 'vitest';
 import { ROOT, cli, hashTree } from './helpers/cli.ts';
+import { writePlant } from '../bench/plant.ts';
 
 const temp = mkdtempSync(path.join(tmpdir(), 'plumbline-cache-'));
 afterAll(() => rmSync(temp, { recursive: true, force: true }));
@@ -207,6 +208,20 @@ describe('threads', () => {
     expect(cli('build', path.join(ROOT, 'data/demo'), '--out', two, '--jobs', '2', '--no-cache', '-q').code).toBe(0);
     const a = hashTree(one);
     expect(Object.keys(a).filter((f) => f.endsWith('.svg'))).toHaveLength(19);
+    expect(hashTree(two)).toEqual(a);
+  }, 180_000);
+
+  it('writes the same pack with one thread as with two where the worker draws charts as they are assessed, batch by batch', () => {
+    // 120 characteristics: with two threads the charts go to the worker in batches of 50 during the
+    // analysis (build.ts DRAW_BATCH) and the last 20 after it; with one, all are drawn here at the end.
+    const ws = path.join(temp, 'plant-120');
+    writePlant(ws, { characteristics: 120, seed: 7 });
+    const one = path.join(temp, 'plant-jobs-1');
+    const two = path.join(temp, 'plant-jobs-2');
+    expect(cli('build', ws, '--out', one, '--jobs', '1', '--no-cache', '-q').code).toBeLessThanOrEqual(1);
+    expect(cli('build', ws, '--out', two, '--jobs', '2', '--no-cache', '-q').code).toBeLessThanOrEqual(1);
+    const a = hashTree(one);
+    expect(Object.keys(a).filter((f) => f.endsWith('.svg')).length).toBeGreaterThan(100);
     expect(hashTree(two)).toEqual(a);
   }, 180_000);
 

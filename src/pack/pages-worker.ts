@@ -28,7 +28,10 @@ parentPort!.on('message', async (message: PagesMessage) => {
   }
   if ('charts' in message) {
     for (const job of message.charts) sent.set(job.id, job.scene);
-    drawing = drawSvgFiles(message.charts);
+    // Charts may come in several messages (as the main thread lays them out): drawn in turn, in order.
+    const before = drawing;
+    const charts = message.charts;
+    drawing = (async () => [...(before ? await before : []), ...(await drawSvgFiles(charts))])();
     // A failure is reported with the pages, when the drawing is waited for.
     drawing.catch(() => {});
     return;
