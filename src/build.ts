@@ -11,7 +11,7 @@ import type { IsoDate } from './model.ts';
 import { buildPackTree } from './pack/content.ts';
 import { MarkedJson, WrittenJson, jsonBytes, jsonChunks } from './pack/json-bytes.ts';
 import { type FileSink, type SunkFile, type UnfilledFile, fillFile } from './pack/write.ts';
-import { type PagePart, type PagesWorker, type PartText, type TextPagesInput, startPagesWorker, writeTextPagesHere } from './pack/text-pages.ts';
+import { type PagePart, type PagesWorker, type PartText, type SvgJob, type TextPagesInput, startPagesWorker, writeTextPagesHere } from './pack/text-pages.ts';
 import { type LaidOutPart, type Paper, toPdf } from './pack/pdf.ts';
 import { loadFonts } from './render/fonts.ts';
 import { svgToPng } from './render/png.ts';
@@ -19,7 +19,7 @@ import { layoutChart } from './render/scene/layout.ts';
 import { chartSpec } from './render/scene/spec.ts';
 import { createTextMetrics } from './render/scene/text-metrics.ts';
 import type { Scene } from './render/scene/types.ts';
-import { type ChartJob, defaultJobs, drawCharts } from './render/pool/chart-pool.ts';
+import { defaultJobs, drawCharts } from './render/pool/chart-pool.ts';
 import { type CacheHit, type CachedPart, SUMMARY_INDEX, type Side, type SideKind, type Sides, type Stored, type SummaryIndex, type SummaryPieces, cacheKey, encodeEntry, encodeStored, entryPath, partKey, partPath, sidePath } from './pack/build-cache.ts';
 import { chartIdOf, chartIdsIn, hasFootnotes } from './pack/mdast.ts';
 import { splitParts } from './pack/parts.ts';
@@ -28,6 +28,7 @@ import { TOOL } from './version.ts';
 import type { Workspace } from './workspace/load.ts';
 import { deserialize } from 'node:v8';
 import { createHash } from 'node:crypto';
+import path from 'node:path';
 
 export interface PlannedPack {
   /** Output path (relative to --out) → contents, in write order. */
@@ -74,6 +75,13 @@ export interface PackOptions {
    * then never held whole. The plan lists it under `placed`, not `files`.
    */
   readonly summarySink?: () => FileSink;
+  /**
+   * The pack's temporary folder, where the pages worker writes each
+   * standalone SVG (and the cache's copy) as soon as it draws it: a
+   * plant's 66 MB of charts, written twice and hashed, had been the main
+   * thread's at the end of the build. The plan lists them under `placed`.
+   */
+  readonly chartsInto?: string;
   /** Characteristics with more points are not cached (default MAX_CACHED_POINTS). */
   readonly maxCachedPoints?: number;
   /** Entries of an earlier build's cache, by key; absent: no cache is read or written. */
@@ -206,7 +214,13 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   };
   /** Charts kept in the cache, by pack path: copied from there into the pack. */
   const copies = new Map<string, CopiedFile>();
-  const jobs: ChartJob[] = [];
+  const jobs: SvgJob[] = [];
+  // Where the worker writes a chart it draws: into the pack, and into the cache where it is kept.
+  const written = (i: number, id: string, a: Assessment): readonly string[] | undefined => {
+    if (!svgsOnPagesWorker || options.chartsInto === undefined) return undefined;
+    const cached = options.cache && a.status === 'assessed' && a.samples.length <= (options.maxCachedPoints ?? MAX_CACHED_POINTS);
+    return [path.join(options.chartsInto, chartFile(id)), ...(cached ? [path.join(options.chartsInto, sidePath(keys[i]!, 'svg'))] : [])];
+  };
   let total = 0;
   const place = (a: Assessment, i: number) => {
     if (a.status !== 'assessed') return;
@@ -221,7 +235,10 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     if (svg && (png || !options.png)) {
       copies.set(chartFile(id), { from: svg.path, ...svg.file });
       if (options.png && png) copies.set(pngFile(id), { from: png.path, ...png.file });
-    } else jobs.push({ id, scene: sceneOf(id)!, png: options.png });
+    } else {
+      const to = written(i, id, a);
+      jobs.push({ id, scene: sceneOf(id)!, png: options.png, ...(to ? { to } : {}) });
+    }
   };
   // With the worker already running, each chart is laid out as its characteristic is assessed and the
   // worker draws its SVG then, beside the analysis: a plant's worker had idled through the analysis
@@ -356,8 +373,10 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   if (svgsOnPagesWorker) options.progress?.('charts', total, total);
   options.progress?.('pages', 2, 2);
   const drawn = new Map<string, { svg: Uint8Array; png: Uint8Array | null }>();
+  /** Charts the worker wrote into the pack folder (and the cache's copy, where kept), with their size and SHA-256. */
+  const placedCharts = new Map<string, { readonly bytes: number; readonly sha256: string }>();
   if (charts) for (const r of await charts) drawn.set(r.id, { svg: encoder.encode(r.svg), png: r.png });
-  else for (const r of drawnWithPages) drawn.set(r.id, { svg: r.svg, png: null });
+  else for (const r of drawnWithPages) 'svg' in r ? drawn.set(r.id, { svg: r.svg, png: null }) : placedCharts.set(r.id, r.written);
   if (options.png && allowed > 1) lap('charts (waiting for the workers)');
   for (const a of assessments) {
     const d = drawn.get(a.characteristic.id);
@@ -365,7 +384,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     files.set(chartFile(a.characteristic.id), d.svg);
     if (options.png && d.png) files.set(pngFile(a.characteristic.id), d.png);
   }
-  const placed = new Map<string, { readonly bytes: number; readonly sha256: string }>();
+  const placed = new Map<string, { readonly bytes: number; readonly sha256: string }>([...placedCharts].map(([id, f]) => [chartFile(id), f]));
   const summaryMade = await summaryDone;
   if (summaryMade instanceof Uint8Array) files.set('summary.json', summaryMade);
   else placed.set('summary.json', { bytes: summaryMade.bytes, sha256: summaryMade.sha256 });
@@ -405,10 +424,15 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
         make('scene', { bytes: bytes.length }, () => bytes);
       }
       const d = drawn.get(id);
+      const w = placedCharts.get(id);
       if (d) {
         make('svg', { bytes: d.svg.length, sha256: shaOf.get(chartFile(id))! }, () => d.svg);
         const png = d.png;
         if (png) make('png', { bytes: png.length, sha256: shaOf.get(pngFile(id))! }, () => png);
+      } else if (w) {
+        // The worker wrote the side file beside the pack's copy (the job's `to`).
+        Object.assign(sides, { svg: w });
+        made = true;
       } else {
         keep('svg');
         keep('png');

@@ -223,6 +223,16 @@ describe('threads', () => {
     const a = hashTree(one);
     expect(Object.keys(a).filter((f) => f.endsWith('.svg')).length).toBeGreaterThan(100);
     expect(hashTree(two)).toEqual(a);
+    // With the cache, the worker writes each chart into the pack and the cache's copy beside its entry
+    // itself: the pack is the same, every cached SVG is one of the pack's charts, and verify (which
+    // hashes every file against the manifest) passes.
+    const cached = path.join(temp, 'plant-jobs-2-cached');
+    expect(cli('build', ws, '--out', cached, '--jobs', '2', '-q').code).toBeLessThanOrEqual(1);
+    expect(packOnly(cached)).toEqual(a);
+    const charts = Object.entries(a).filter(([f]) => f.startsWith('charts/')).map(([, h]) => h).sort();
+    const sides = Object.entries(hashTree(cached)).filter(([f]) => f.startsWith(CACHE) && f.endsWith('.svg')).map(([, h]) => h).sort();
+    expect(sides).toEqual(charts);
+    expect(cli('verify', cached).code).toBe(0);
   }, 180_000);
 
   it('fills a rebuild\'s summary.json from the previous one alike on one thread (here) and on two (the pages worker)', () => {

@@ -178,6 +178,7 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
     plan = await planPack(ws, asOf ?? ws.config.period.to, {
       paper,
       summarySink: () => fileSink(folder, 'summary.json'),
+      chartsInto: folder.temp,
       ...(jobs !== undefined ? { jobs } : {}),
       ...(values['no-cache'] === true ? {} : { cache: openCache(outDir), partCache: openPartCache(outDir), summaryPieces: openSummaryPieces(outDir) }),
       png: values.png === true,

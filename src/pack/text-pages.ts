@@ -6,6 +6,9 @@
  * SVGs too (sent as soon as their scenes are made), and the three run
  * beside the PDF.
  */
+import { createHash } from 'node:crypto';
+import { mkdirSync, writeFileSync } from 'node:fs';
+import path from 'node:path';
 import { Worker } from 'node:worker_threads';
 import type { Root, RootContent } from 'mdast';
 import { loadFonts } from '../render/fonts.ts';
@@ -42,9 +45,15 @@ export interface PartText {
 }
 
 /** A standalone SVG as its file's bytes: moved, not copied, from the worker. */
-export interface SvgFile {
-  readonly id: string;
-  readonly svg: Uint8Array;
+/**
+ * A standalone SVG the worker drew: its bytes, or where it wrote them
+ * (`SvgJob.to`) with their size and SHA-256 for the manifest.
+ */
+export type SvgFile = { readonly id: string; readonly svg: Uint8Array } | { readonly id: string; readonly written: { readonly bytes: number; readonly sha256: string } };
+
+/** A chart for the worker to draw; with `to`, files (absolute paths) to write its SVG to, rather than send it back. */
+export interface SvgJob extends ChartJob {
+  readonly to?: readonly string[];
 }
 
 export interface TextPages {
@@ -93,15 +102,31 @@ export async function writeTextPagesHere(input: TextPagesInput): Promise<TextPag
   return { md, html, charts: [], fresh };
 }
 
-/** The standalone SVG files of `jobs`, drawn in this thread. */
-export const drawSvgFiles = async (jobs: readonly ChartJob[]): Promise<SvgFile[]> => (await drawCharts(jobs, 0)).map((r) => ({ id: r.id, svg: encoder.encode(r.svg) }));
+/**
+ * The standalone SVG files of `jobs`, drawn in this thread; a job with
+ * `to` is written there at once (its folders made) and hashed, and only
+ * its size and SHA-256 come back.
+ */
+export async function drawSvgFiles(jobs: readonly SvgJob[]): Promise<SvgFile[]> {
+  const drawn = await drawCharts(jobs, 0);
+  return drawn.map((r, i) => {
+    const svg = encoder.encode(r.svg);
+    const to = jobs[i]!.to;
+    if (!to) return { id: r.id, svg };
+    for (const file of to) {
+      mkdirSync(path.dirname(file), { recursive: true });
+      writeFileSync(file, svg);
+    }
+    return { id: r.id, written: { bytes: svg.length, sha256: createHash('sha256').update(svg).digest('hex') } };
+  });
+}
 
 /**
  * What the worker is sent: optionally, a file to fill (a rebuild's
  * summary.json) and the SVGs to draw (as soon as their scenes are made),
  * then the pages.
  */
-export type PagesMessage = { readonly fill: FillJob } | { readonly charts: readonly ChartJob[] } | { readonly pages: TextPagesInput };
+export type PagesMessage = { readonly fill: FillJob } | { readonly charts: readonly SvgJob[] } | { readonly pages: TextPagesInput };
 
 /** What the worker answers: the filled file, or the pages (with the SVGs), or why either failed. */
 export type PagesReply = { readonly filled: SunkFile } | { readonly fillFailed: string } | { readonly pages: TextPages };
@@ -115,7 +140,7 @@ export interface PagesWorker {
    * a plant's drawing then starts while this thread still builds the tree.
    * Their scenes need not be sent again with the pages.
    */
-  draw(charts: readonly ChartJob[]): void;
+  draw(charts: readonly SvgJob[]): void;
   run(input: TextPagesInput): Promise<TextPages>;
   stop(): void;
 }
