@@ -233,7 +233,16 @@ describe('threads', () => {
     const sides = Object.entries(hashTree(cached)).filter(([f]) => f.startsWith(CACHE) && f.endsWith('.svg')).map(([, h]) => h).sort();
     expect(sides).toEqual(charts);
     expect(cli('verify', cached).code).toBe(0);
-  }, 180_000);
+    // On letter paper every part is laid out again, from the scenes the worker wrote into the cache
+    // (read back with v8's deserialiser): the pack must be a cold letter build's.
+    // Both compared with the same earlier pack, so that "Since the last review" reads the same.
+    const earlier = path.join(temp, 'plant-a4');
+    cpSync(cached, earlier, { recursive: true });
+    const letterCold = path.join(temp, 'plant-letter-cold');
+    expect(cli('build', ws, '--out', letterCold, '--paper', 'letter', '--previous', earlier, '--no-cache', '-q').code).toBeLessThanOrEqual(1);
+    expect(json(cli('build', ws, '--out', cached, '--paper', 'letter', '--previous', earlier, '--json')).cache).toEqual({ reused: 120, redone: 0 });
+    expect(packOnly(cached)).toEqual(packOnly(letterCold));
+  }, 240_000);
 
   it('fills a rebuild\'s summary.json from the previous one alike on one thread (here) and on two (the pages worker)', () => {
     const cold = path.join(temp, 'fill-cold');

@@ -9,6 +9,7 @@
 import { createHash } from 'node:crypto';
 import { mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
+import { serialize } from 'node:v8';
 import { Worker } from 'node:worker_threads';
 import type { Root, RootContent } from 'mdast';
 import { loadFonts } from '../render/fonts.ts';
@@ -49,11 +50,22 @@ export interface PartText {
  * A standalone SVG the worker drew: its bytes, or where it wrote them
  * (`SvgJob.to`) with their size and SHA-256 for the manifest.
  */
-export type SvgFile = { readonly id: string; readonly svg: Uint8Array } | { readonly id: string; readonly written: { readonly bytes: number; readonly sha256: string } };
+export type SvgFile = (
+  | { readonly id: string; readonly svg: Uint8Array }
+  | { readonly id: string; readonly written: { readonly bytes: number; readonly sha256: string } }
+) & {
+  /** The size of the scene's file, where the job asked for one (`SvgJob.sceneTo`). */
+  readonly sceneBytes?: number;
+};
 
-/** A chart for the worker to draw; with `to`, files (absolute paths) to write its SVG to, rather than send it back. */
+/**
+ * A chart for the worker to draw; with `to`, files (absolute paths) to
+ * write its SVG to, rather than send it back; with `sceneTo`, a file to
+ * write its scene to, serialised (the build cache's side file).
+ */
 export interface SvgJob extends ChartJob {
   readonly to?: readonly string[];
+  readonly sceneTo?: string;
 }
 
 export interface TextPages {
@@ -109,15 +121,23 @@ export async function writeTextPagesHere(input: TextPagesInput): Promise<TextPag
  */
 export async function drawSvgFiles(jobs: readonly SvgJob[]): Promise<SvgFile[]> {
   const drawn = await drawCharts(jobs, 0);
+  const put = (file: string, bytes: Uint8Array) => {
+    mkdirSync(path.dirname(file), { recursive: true });
+    writeFileSync(file, bytes);
+  };
   return drawn.map((r, i) => {
     const svg = encoder.encode(r.svg);
-    const to = jobs[i]!.to;
-    if (!to) return { id: r.id, svg };
-    for (const file of to) {
-      mkdirSync(path.dirname(file), { recursive: true });
-      writeFileSync(file, svg);
+    const { to, sceneTo, scene } = jobs[i]!;
+    let sceneBytes: number | undefined;
+    if (sceneTo !== undefined) {
+      const bytes = serialize(scene);
+      put(sceneTo, bytes);
+      sceneBytes = bytes.length;
     }
-    return { id: r.id, written: { bytes: svg.length, sha256: createHash('sha256').update(svg).digest('hex') } };
+    const withScene = sceneBytes === undefined ? {} : { sceneBytes };
+    if (!to) return { id: r.id, svg, ...withScene };
+    for (const file of to) put(file, svg);
+    return { id: r.id, written: { bytes: svg.length, sha256: createHash('sha256').update(svg).digest('hex') }, ...withScene };
   });
 }
 
