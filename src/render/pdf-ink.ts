@@ -54,6 +54,10 @@ interface Encoded {
 const encodings = new WeakMap<FontkitFont, Map<string, Encoded>>();
 const NONE: Encoded['shaped'] = [];
 
+/** Glyph numbers as four upper-case hex digits, made once each: a plant's PDF writes millions of them. */
+const HEX: string[] = [];
+const hex4 = (id: number) => (HEX[id] ??= id.toString(16).padStart(4, '0').toUpperCase());
+
 /**
  * `text` as a hex string of the font's glyph numbers, four hex digits each
  * (Identity-H), the glyphs of the font's layout of the text, as pdf-lib's
@@ -80,7 +84,7 @@ export function glyphHex(font: FontkitFont, text: string, repeats = false): Enco
     let j = 0;
     for (let i = 0; i < glyphs.length; i++) {
       const g = glyphs[i]!;
-      parts[i] = g.id.toString(16).padStart(4, '0').toUpperCase();
+      parts[i] = hex4(g.id);
       let t = chars[j] ?? '';
       let k = 1;
       if (glyphs.length < chars.length && mapped.get(g.id) !== t) {
