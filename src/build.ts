@@ -217,7 +217,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   const jobs: SvgJob[] = [];
   // Where the worker writes a chart it draws: into the pack, and into the cache where it is kept, with
   // the scene's side file (serialised there: the main thread's 0.2 s for a plant, and 20 MB to write).
-  const written = (i: number, id: string, a: Assessment): Pick<SvgJob, 'to' | 'sceneTo'> => {
+  const filesFor = (i: number, id: string, a: Assessment): Pick<SvgJob, 'to' | 'sceneTo'> => {
     if (!svgsOnPagesWorker || options.chartsInto === undefined) return {};
     const into = options.chartsInto;
     const cached = options.cache && a.status === 'assessed' && a.samples.length <= (options.maxCachedPoints ?? MAX_CACHED_POINTS);
@@ -239,7 +239,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
       copies.set(chartFile(id), { from: svg.path, ...svg.file });
       if (options.png && png) copies.set(pngFile(id), { from: png.path, ...png.file });
     } else {
-      jobs.push({ id, scene: sceneOf(id)!, png: options.png, ...written(i, id, a) });
+      jobs.push({ id, scene: sceneOf(id)!, png: options.png, ...filesFor(i, id, a) });
     }
   };
   // With the worker already running, each chart is laid out as its characteristic is assessed and the
@@ -281,12 +281,10 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   options.progress?.('charts', done, total);
   // Threads. With two or more, index.md and index.html are written on a worker while this thread
   // lays out the PDF (1,000 characteristics on two cores: 38–43 s → 35 s), and that worker draws the
-  // SVGs too: they are sent now, so that it draws them while this thread builds the tree and the
-  // pages come after (a plant: the wait for the worker after the PDF went from 1.8 s to 1.1 s). In a
-  // pool of their own beside the PDF, or started early beside the analysis, SVGs slowed both down.
-  // PNGs (resvg, about 50 ms a chart) go to a pool of their own beside the pages (300
+  // SVGs too: during the analysis when it started before it (above), else from now on, while this
+  // thread builds the tree; the pages come after. In a pool of their own beside the PDF, SVGs slowed
+  // both down. PNGs (resvg, about 50 ms a chart) go to a pool of their own beside the pages (300
   // characteristics: 39 s → 32 s).
-  // The worker starts on the SVGs now (the rest of them, when pipelined), while this thread builds the tree.
   if (svgsOnPagesWorker && jobs.length > sent) pagesWorker!.draw(jobs.slice(sent));
   const charts = svgsOnPagesWorker ? undefined : drawCharts(jobs, options.png ? allowed - 1 : 0, (n) => options.progress?.('charts', (done += n), total));
   if (charts && !(options.png && allowed > 1)) {

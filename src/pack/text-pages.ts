@@ -45,10 +45,10 @@ export interface PartText {
   readonly html: Uint8Array;
 }
 
-/** A standalone SVG as its file's bytes: moved, not copied, from the worker. */
 /**
- * A standalone SVG the worker drew: its bytes, or where it wrote them
- * (`SvgJob.to`) with their size and SHA-256 for the manifest.
+ * A standalone SVG the worker drew: its bytes (moved, not copied, from the
+ * worker), or where it wrote them (`SvgJob.to`) with their size and
+ * SHA-256 for the manifest.
  */
 export type SvgFile = (
   | { readonly id: string; readonly svg: Uint8Array }

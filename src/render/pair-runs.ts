@@ -3,7 +3,7 @@
  *
  * Most of the words a pack shapes are figures ("49.872", "2026-11-30",
  * "±0.12"), nearly all of them seen once, and fontkit takes 40–100 µs to
- * shape each: the better part of a second of a 100-characteristic build.
+ * shape each: 0.4 s on each thread of a 100-characteristic build.
  * For these words shaping does little that can be known in advance: no
  * substitution touches their glyphs and no mark or cursive positioning
  * either, so what fontkit gives is each glyph's advance, plus whatever

@@ -40,7 +40,7 @@ export const labelsOf = (jobs: readonly ChartJob[]) => jobs.flatMap((j) => j.sce
 /**
  * satori and the SVG writer, loaded when charts are first drawn in this
  * thread: a build whose charts are drawn on other threads never loads them
- * here (0.2 s of the main thread's start); a thread that will draw may load
+ * here (about 0.1 s of the main thread's start); a thread that will draw may load
  * them early, while it waits.
  */
 export const loadChartDrawing = () => import('../svg-satori.ts');
