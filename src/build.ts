@@ -215,6 +215,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   /** Charts kept in the cache, by pack path: copied from there into the pack. */
   const copies = new Map<string, CopiedFile>();
   const jobs: SvgJob[] = [];
+  const svgsOnPagesWorker = allowed > 1 && !options.png;
   // Where the worker writes a chart it draws: into the pack, and into the cache where it is kept, with
   // the scene's side file (serialised there: the main thread's 0.2 s for a plant, and 20 MB to write).
   const filesFor = (i: number, id: string, a: Assessment): Pick<SvgJob, 'to' | 'sceneTo'> => {
@@ -245,7 +246,6 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   // With the worker already running, each chart is laid out as its characteristic is assessed and the
   // worker draws its SVG then, beside the analysis: a plant's worker had idled through the analysis
   // and was the longer path after it (1.3–1.9 s of waiting for it after the PDF).
-  const svgsOnPagesWorker = allowed > 1 && !options.png;
   const pipelined = early !== undefined && svgsOnPagesWorker;
   let sent = 0;
   const send = (atLeast: number) => {
