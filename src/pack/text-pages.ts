@@ -7,8 +7,7 @@
  * beside the PDF.
  */
 import { createHash } from 'node:crypto';
-import { mkdirSync, writeFileSync } from 'node:fs';
-import path from 'node:path';
+import { writeFileSync } from 'node:fs';
 import { serialize } from 'node:v8';
 import { Worker } from 'node:worker_threads';
 import type { Root, RootContent } from 'mdast';
@@ -16,7 +15,7 @@ import { loadFonts } from '../render/fonts.ts';
 import { type ChartJob, drawCharts } from '../render/pool/chart-pool.ts';
 import type { Scene } from '../render/scene/types.ts';
 import { workerEntry } from '../worker-entry.ts';
-import type { FillJob, SunkFile } from './write.ts';
+import { type FillJob, type SunkFile, folderMaker } from './write.ts';
 
 export interface TextPagesInput {
   /**
@@ -121,8 +120,9 @@ export async function writeTextPagesHere(input: TextPagesInput): Promise<TextPag
  */
 export async function drawSvgFiles(jobs: readonly SvgJob[]): Promise<SvgFile[]> {
   const drawn = await drawCharts(jobs, 0);
+  const folderFor = folderMaker();
   const put = (file: string, bytes: Uint8Array) => {
-    mkdirSync(path.dirname(file), { recursive: true });
+    folderFor(file);
     writeFileSync(file, bytes);
   };
   return drawn.map((r, i) => {

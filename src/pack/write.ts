@@ -157,7 +157,7 @@ export function fileSink(folder: PackFolder, name: string): FileSink {
   let bytes = 0;
   return {
     write(chunk) {
-      for (let done = 0; done < chunk.length; ) done += writeSync(fd, chunk, done, chunk.length - done, bytes + done);
+      writeExactly(fd, chunk, bytes);
       // With room left, fillFile hashes the whole file once it is filled.
       if (holes.length === 0) hash.update(chunk), check.update(chunk);
       bytes += chunk.length;
@@ -184,6 +184,23 @@ export function readExactly(fd: number, file: string, out: Uint8Array, at: numbe
     if (n === 0) throw new Error(`${file} changed during the build; build again`);
     done += n;
   }
+}
+
+/** Writes all of `bytes` to the open file `fd` from byte `at` on. */
+function writeExactly(fd: number, bytes: Uint8Array, at: number): void {
+  for (let done = 0; done < bytes.length; ) done += writeSync(fd, bytes, done, bytes.length - done, at + done);
+}
+
+/**
+ * Makes the folder of each file it is given, once per folder: a pack's
+ * thousands of files share a few folders.
+ */
+export function folderMaker(): (file: string) => void {
+  const made = new Set<string>();
+  return (file) => {
+    const dir = path.dirname(file);
+    if (!made.has(dir)) mkdirSync(dir, { recursive: true }), made.add(dir);
+  };
 }
 
 /**
@@ -217,7 +234,7 @@ export function fillFile(job: FillJob): SunkFile {
       if (source === undefined) sources.set(hole.from.file, (source = openSync(hole.from.file, 'r')));
       const bytes = room(hole.from.end - hole.from.start);
       readExactly(source, hole.from.file, bytes, hole.from.start);
-      for (let done = 0; done < bytes.length; ) done += writeSync(fd, bytes, done, bytes.length - done, hole.at + done);
+      writeExactly(fd, bytes, hole.at);
       hashed(bytes);
       at = hole.at + bytes.length;
     }
@@ -250,11 +267,7 @@ export function writePack(
 ): void {
   const { out, temp, old } = folder;
   try {
-    const made = new Set<string>();
-    const folderFor = (target: string) => {
-      const dir = path.dirname(target);
-      if (!made.has(dir)) mkdirSync(dir, { recursive: true }), made.add(dir);
-    };
+    const folderFor = folderMaker();
     const put = (name: string, bytes: Uint8Array) => {
       const target = path.join(temp, name);
       folderFor(target);
