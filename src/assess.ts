@@ -8,34 +8,74 @@ import { type Assessment, analyse } from './analyse.ts';
 import { type Diagnostic, hasErrors, warning } from './diagnostics.ts';
 import type { IsoDate } from './model.ts';
 import { type PreviousLedger, checkHistory, ledgerChain, ledgerRows, rewriteSentence } from './review/ledger-chain.ts';
-import { buildSummary } from './summary.ts';
+import { type CharacteristicJson, buildSummary, characteristicJson } from './summary.ts';
+import { type Brief, briefOf } from './pack/brief.ts';
 import type { Workspace } from './workspace/load.ts';
 import { LEDGER_FILE } from './workspace/ledger-file.ts';
 
-/** `known(i)` may give the i-th characteristic's assessment from an earlier build (the build cache), so it is not redone. */
+/**
+ * A characteristic reviewed: its brief, its assessment and its item of
+ * summary.json. Those of a characteristic the build cache kept are read
+ * back, or made, only when first asked for (most of a rebuild never asks).
+ */
+export interface Reviewed {
+  readonly brief: Brief;
+  assessment(): Assessment;
+  json(): CharacteristicJson;
+}
+
+/** A characteristic an earlier build reviewed (the build cache): its brief, and its assessment when asked for (undefined if it cannot be read back: it is then made afresh). */
+export interface KnownReview {
+  readonly brief: Brief;
+  assessment(): Assessment | undefined;
+}
+
+/** `known(i)` may give the i-th characteristic from an earlier build (the build cache), so it is not assessed again. */
 export function assessAll(
   ws: Workspace,
   asOf: IsoDate,
-  known: (index: number) => Assessment | undefined = () => undefined,
+  known: (index: number) => KnownReview | undefined = () => undefined,
   progress: (done: number, total: number) => void = () => {},
-  assessed: (index: number, assessment: Assessment) => void = () => {},
-): Assessment[] {
+  assessed: (index: number, reviewed: Reviewed) => void = () => {},
+): Reviewed[] {
+  const period = ws.config.period;
+  const analyseAt = (c: Workspace['characteristics'][number]) =>
+    analyse({
+      config: ws.config,
+      characteristic: c.characteristic,
+      samples: c.samples,
+      laterLabels: c.laterLabels,
+      ledger: c.ledger,
+      ledgerFile: LEDGER_FILE,
+      diagnostics: c.diagnostics,
+      asOf,
+    });
   return ws.characteristics.map((c, i) => {
     progress(i, ws.characteristics.length);
-    const a =
-      known(i) ??
-      analyse({
-        config: ws.config,
-        characteristic: c.characteristic,
-        samples: c.samples,
-        laterLabels: c.laterLabels,
-        ledger: c.ledger,
-        ledgerFile: LEDGER_FILE,
-        diagnostics: c.diagnostics,
-        asOf,
-      });
-    assessed(i, a);
-    return a;
+    const k = known(i);
+    let r: Reviewed;
+    if (k) {
+      let afresh: Assessment | undefined;
+      const assessment = () => k.assessment() ?? (afresh ??= analyseAt(c));
+      r = { brief: k.brief, assessment, json: () => characteristicJson(assessment(), period) };
+    } else {
+      const a = analyseAt(c);
+      // Its item of summary.json, held until summary.json is written (the one call of json()), then
+      // let go: a plant's items are hundreds of megabytes that nothing after needs.
+      let json: CharacteristicJson | undefined = characteristicJson(a, period);
+      const brief = briefOf(a, ws.config, json);
+      r = {
+        brief,
+        assessment: () => a,
+        json: () => {
+          const made = json ?? characteristicJson(a, period);
+          json = undefined;
+          return made;
+        },
+      };
+    }
+    assessed(i, r);
+    return r;
   });
 }
 
@@ -50,17 +90,17 @@ export function ledgerOf(ws: Workspace) {
   return { rows, chain: ledgerChain(rows) };
 }
 
-/** The analysis alone: assessments, summary.json and diagnostics, without drawing anything (used by `check`). */
-export function planSummary(
+/** Every characteristic reviewed, with the ledger's integrity, the diagnostics and the exit code (`assessAll`'s arguments). */
+export function reviewAll(
   ws: Workspace,
   asOf: IsoDate,
   previousLedger?: PreviousLedger,
-  known?: (index: number) => Assessment | undefined,
+  known?: (index: number) => KnownReview | undefined,
   progress?: (done: number, total: number) => void,
-  /** Hears each assessment as it is made (or taken from `known`), in order: a build lays out its chart then. */
-  assessed?: (index: number, assessment: Assessment) => void,
+  /** Hears each characteristic as it is reviewed (or taken from `known`), in order: a build lays out its chart then. */
+  assessed?: (index: number, reviewed: Reviewed) => void,
 ) {
-  const assessments = assessAll(ws, asOf, known, progress, assessed);
+  const reviewed = assessAll(ws, asOf, known, progress, assessed);
   const { rows, chain } = ledgerOf(ws);
   const integrity = checkHistory(chain, rows, previousLedger, asOf);
   const history: Diagnostic[] = integrity.rewrite
@@ -73,8 +113,15 @@ export function planSummary(
       ]
     : [];
   const global = [...history, ...ws.diagnostics];
-  const summary = buildSummary(ws.config, assessments, global, asOf, integrity);
-  const diagnostics = [...global, ...assessments.flatMap((a) => a.diagnostics)];
-  const failed = assessments.some((a) => a.status !== 'assessed') || hasErrors(ws.diagnostics);
-  return { assessments, summary, diagnostics, integrity, exitCode: (failed ? 1 : 0) as 0 | 1 };
+  const briefs = reviewed.map((r) => r.brief);
+  const diagnostics = [...global, ...briefs.flatMap((b) => b.diagnostics)];
+  const failed = briefs.some((b) => b.status !== 'assessed') || hasErrors(ws.diagnostics);
+  return { reviewed, briefs, global, diagnostics, integrity, exitCode: (failed ? 1 : 0) as 0 | 1 };
+}
+
+/** The analysis alone: every characteristic reviewed and summary.json, without drawing anything (used by `check`). */
+export function planSummary(ws: Workspace, asOf: IsoDate, previousLedger?: PreviousLedger) {
+  const review = reviewAll(ws, asOf, previousLedger);
+  const summary = buildSummary(ws.config, review.briefs, review.reviewed.map((r) => r.json()), review.global, asOf, review.integrity);
+  return { ...review, assessments: review.reviewed.map((r) => r.assessment()), summary };
 }

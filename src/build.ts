@@ -2,13 +2,15 @@
  * From a loaded workspace to the planned pack: every output file with its
  * bytes, decided before anything is written (the pack writer writes them).
  */
-import type { Assessment } from './analyse.ts';
+import type { Assessed } from './analyse.ts';
 import { collectIfGrown } from './collect.ts';
-import { planSummary, sha256 } from './assess.ts';
+import { type KnownReview, type Reviewed, reviewAll, sha256 } from './assess.ts';
 import { type PreviousLedger, rewriteSentence } from './review/ledger-chain.ts';
 import type { Diagnostic } from './diagnostics.ts';
 import type { IsoDate } from './model.ts';
-import { buildPackTree } from './pack/content.ts';
+import { type PackItem, type PackTree, buildPackTree, madeHeadings } from './pack/content.ts';
+import type { Brief } from './pack/brief.ts';
+import { type MadeSection, madeOf, nodesDigest } from './pack/made-section.ts';
 import { MarkedJson, WrittenJson, jsonBytes, jsonChunks } from './pack/json-bytes.ts';
 import { type FileSink, type SunkFile, type UnfilledFile, fillFile } from './pack/write.ts';
 import { type PagePart, type PagesWorker, type PartText, type SvgJob, type TextPagesInput, startPagesWorker, writeTextPagesHere } from './pack/text-pages.ts';
@@ -20,10 +22,12 @@ import { chartSpec } from './render/scene/spec.ts';
 import { createTextMetrics } from './render/scene/text-metrics.ts';
 import type { Scene } from './render/scene/types.ts';
 import { defaultJobs, drawCharts } from './render/pool/chart-pool.ts';
-import { type CacheHit, type CachedPart, SUMMARY_INDEX, type Side, type SideKind, type Sides, type Stored, type SummaryIndex, type SummaryPieces, cacheKey, encodeEntry, encodeStored, entryPath, partKey, partPath, sidePath } from './pack/build-cache.ts';
+import { type CacheHit, type CachedPart, ENTRY_INDEX, type IndexedEntry, SECTION_INDEX, SUMMARY_INDEX, type Side, type SideKind, type Sides, type Stored, type SummaryIndex, type SummaryPieces, cacheKey, encodeEntry, encodeStored, entryPath, partKey, partPath, sectionKey, sidePath } from './pack/build-cache.ts';
 import { chartIdOf, chartIdsIn, hasFootnotes } from './pack/mdast.ts';
+import type { RootContent } from 'mdast';
 import { splitParts } from './pack/parts.ts';
-import { RECORD_FILE, type SummaryLike, compareSummaries, comparisonRecord } from './review/since.ts';
+import { RECORD_FILE, type SummaryLike, compareSummaries, recordOf } from './review/since.ts';
+import { SUMMARY_FORMAT, buildSummary } from './summary.ts';
 import { TOOL } from './version.ts';
 import type { Workspace } from './workspace/load.ts';
 import { deserialize } from 'node:v8';
@@ -47,7 +51,8 @@ export interface PlannedPack {
   readonly cacheKept: ReadonlySet<string>;
   /** Characteristics taken from the cache, and those analysed (and drawn) afresh. */
   readonly cacheUse: { readonly reused: number; readonly redone: number };
-  readonly assessments: readonly Assessment[];
+  /** Every characteristic in brief, in order. */
+  readonly briefs: readonly Brief[];
   readonly diagnostics: readonly Diagnostic[];
   /** 0 when every characteristic was assessed, 1 otherwise. */
   readonly exitCode: 0 | 1;
@@ -90,6 +95,8 @@ export interface PackOptions {
   readonly partCache?: Stored<CachedPart>;
   /** The parts of an earlier build's summary.json, by cache key (read only when `cache` is given). */
   readonly summaryPieces?: SummaryPieces;
+  /** The characteristics' sections as an earlier build made them, by section key (read only when `cache` is given). */
+  readonly madeSections?: (key: string) => MadeSection | undefined;
 }
 
 export const DEFAULT_OPTIONS: PackOptions = { paper: 'a4', png: false };
@@ -124,30 +131,32 @@ export const MAX_CACHED_POINTS = 100_000;
  * The analysis, with summary.json written at once and the comparison with
  * the previous pack made: the summary object repeats every point of every
  * chart, and a plant's is hundreds of megabytes of heap that nothing after
- * this needs (its bytes live outside the heap), so it is not kept.
+ * this needs (its bytes live outside the heap), so it is not kept. An
+ * unchanged characteristic's brief and part of summary.json come from the
+ * build cache, and its assessment is not read back.
  */
 function summarise(
   ws: Workspace,
   asOf: IsoDate,
   options: PackOptions,
-  known: (i: number) => Assessment | undefined,
+  known: (i: number) => KnownReview | undefined,
   written: (i: number) => ReturnType<SummaryPieces>,
-  assessed: (i: number, a: Assessment) => void,
+  assessed: (i: number, r: Reviewed) => void,
 ) {
   // Progress every 50 characteristics: a plant's analysis takes seconds.
   const progress = (done: number, total: number) => (done % 50 === 0 ? options.progress?.('analysis', done, total) : undefined);
-  const { summary, ...rest } = planSummary(ws, asOf, options.previousLedger, known, progress, assessed);
-  const record = comparisonRecord(summary);
+  const review = reviewAll(ws, asOf, options.previousLedger, known, progress, assessed);
+  const record = recordOf({ format: SUMMARY_FORMAT, asOf, period: ws.config.period }, review.briefs.map((b) => b.record));
   const since = options.previous ? compareSummaries(options.previous, record) : undefined;
   // A characteristic's part of summary.json is a function of what its cache key hashes: one from the
   // cache goes in as the bytes the earlier pack's summary.json has (a plant's 86 MB took 1.6 s to
   // write afresh). Every part is marked, so that the next build finds it in this one's.
   const ranges: (readonly [number, number])[] = [];
-  const characteristics = summary.characteristics.map((c, i) => {
+  const characteristics = review.reviewed.map((r, i) => {
     const piece = written(i);
-    return new MarkedJson(piece ? new WrittenJson(piece.read, CHARACTERISTIC_INDENT, piece.from) : c, (start, end) => (ranges[i] = [start, end]));
+    return new MarkedJson(piece ? new WrittenJson(piece.read, CHARACTERISTIC_INDENT, piece.from) : r.json(), (start, end) => (ranges[i] = [start, end]));
   });
-  const document = { ...summary, characteristics };
+  const document = buildSummary(ws.config, review.briefs, characteristics, review.global, asOf, review.integrity);
   let summaryFile: Uint8Array | SunkFile | UnfilledFile;
   if (options.summarySink) {
     const sink = options.summarySink();
@@ -157,7 +166,8 @@ function summarise(
   } else {
     summaryFile = json(document, SUMMARY_LAYOUT);
   }
-  return { ...rest, summaryFile, summaryRanges: ranges, recordBytes: json(record), since };
+  const { reviewed, briefs, diagnostics, integrity, exitCode } = review;
+  return { reviewed, briefs, diagnostics, integrity, exitCode, summaryFile, summaryRanges: ranges, recordBytes: json(record), since };
 }
 
 /** A data file of more bytes than this (about 100,000 points) is a long series, for when the pages worker starts. */
@@ -218,29 +228,29 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   const svgsOnPagesWorker = allowed > 1 && !options.png;
   // Where the worker writes a chart it draws: into the pack, and into the cache where it is kept, with
   // the scene's side file (serialised there: the main thread's 0.2 s for a plant, and 20 MB to write).
-  const filesFor = (i: number, id: string, a: Assessment): Pick<SvgJob, 'to' | 'sceneTo'> => {
+  const filesFor = (i: number, id: string, b: Brief): Pick<SvgJob, 'to' | 'sceneTo'> => {
     if (!svgsOnPagesWorker || options.chartsInto === undefined) return {};
     const into = options.chartsInto;
-    const cached = options.cache && a.status === 'assessed' && a.samples.length <= (options.maxCachedPoints ?? MAX_CACHED_POINTS);
+    const cached = options.cache && b.status === 'assessed' && b.points <= (options.maxCachedPoints ?? MAX_CACHED_POINTS);
     const pack = path.join(into, chartFile(id));
     return cached ? { to: [pack, path.join(into, sidePath(keys[i]!, 'svg'))], sceneTo: path.join(into, sidePath(keys[i]!, 'scene')) } : { to: [pack] };
   };
   let total = 0;
-  const place = (a: Assessment, i: number) => {
-    if (a.status !== 'assessed') return;
+  const place = (r: Reviewed, i: number) => {
+    if (r.brief.status !== 'assessed') return;
     total++;
-    const id = a.characteristic.id;
+    const id = r.brief.id;
     const hit = hits[i];
     const scene = hit?.side('scene');
     if (scene) cachedScenes.set(id, scene);
-    else scenes.set(id, layoutChart(chartSpec(a, ws.config.period), metrics));
+    else scenes.set(id, layoutChart(chartSpec(r.assessment() as Assessed, ws.config.period), metrics));
     const svg = hit?.side('svg');
     const png = hit?.side('png');
     if (svg && (png || !options.png)) {
       copies.set(chartFile(id), { from: svg.path, ...svg.file });
       if (options.png && png) copies.set(pngFile(id), { from: png.path, ...png.file });
     } else {
-      jobs.push({ id, scene: sceneOf(id)!, png: options.png, ...filesFor(i, id, a) });
+      jobs.push({ id, scene: sceneOf(id)!, png: options.png, ...filesFor(i, id, r.brief) });
     }
   };
   // With the worker already running, each chart is laid out as its characteristic is assessed and the
@@ -253,13 +263,27 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     early!.draw(jobs.slice(sent));
     sent = jobs.length;
   };
-  const { assessments, diagnostics, integrity, exitCode, summaryFile, summaryRanges, recordBytes, since } = summarise(
+  // Entries that could not be read back when asked for (made afresh): written again, not linked.
+  const spoiled = new Set<number>();
+  const known = (i: number): KnownReview | undefined => {
+    const hit = hits[i];
+    if (!hit) return undefined;
+    return {
+      brief: hit.brief,
+      assessment: () => {
+        const a = hit.assessment();
+        if (!a) spoiled.add(i);
+        return a;
+      },
+    };
+  };
+  const { reviewed, briefs, diagnostics, integrity, exitCode, summaryFile, summaryRanges, recordBytes, since } = summarise(
     ws,
     asOf,
     options,
-    (i) => hits[i]?.entry.assessment,
+    known,
     (i) => (hits[i] ? options.summaryPieces?.(keys[i]!) : undefined),
-    pipelined ? (i, a) => (place(a, i), send(DRAW_BATCH)) : () => {},
+    pipelined ? (i, r) => (place(r, i), send(DRAW_BATCH)) : () => {},
   );
   lap('analysis and summary.json');
   const pagesWorker = early ?? (allowed > 1 ? startWorker() : undefined);
@@ -274,7 +298,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   const fingerprint = sha256(encoder.encode(inputs.map((i) => `${i.sha256}  ${i.path}`).join('\n')));
   const files = new Map<string, Uint8Array>();
   if (!pipelined) {
-    assessments.forEach(place);
+    reviewed.forEach(place);
     lap('scenes');
   }
   let done = total - jobs.length;
@@ -292,35 +316,83 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     lap('charts');
   }
 
-  const pack = buildPackTree({
-    config: ws.config,
-    assessments,
-    diagnostics: ws.diagnostics,
-    asOf,
-    fingerprint,
-    tool: TOOL,
-    templates: ws.templates,
-    chartFile,
-    ...(options.audience ? { audience: options.audience } : {}),
-    ...(integrity.rewrite ? { rewritten: rewriteSentence(integrity.rewrite) } : {}),
-    ...(since ? { since } : {}),
+  // An unchanged characteristic's section goes into the tree as the earlier build made it, where that
+  // build's part (pages, Markdown and HTML) is in the cache: its section is not built again, nor its
+  // assessment read back (a plant's 999 were 0.5 s to read and 1.4 s of tree and garbage).
+  const keyOfChart = new Map(options.cache ? ws.characteristics.map((c, i) => [c.configured.id, keys[i]!] as const) : []);
+  const chartKeysOf = (ids: readonly string[]) => ids.map((id) => keyOfChart.get(id) ?? `unknown ${id}`);
+  const sectionKeys = options.cache ? keys.map((k) => sectionKey(k, ws.templates.characteristic)) : [];
+  /** The cached part of each characteristic whose made section is used, by index. */
+  const madeParts = new Map<number, { key: string; hit: NonNullable<ReturnType<Stored<CachedPart>>> }>();
+  let made: (MadeSection | undefined)[] = reviewed.map((_, i) => {
+    const m = options.cache ? options.madeSections?.(sectionKeys[i]!) : undefined;
+    if (!m) return undefined;
+    const key = partKey(m.digest, chartKeysOf(m.charts), options.paper);
+    const hit = options.partCache?.(key);
+    if (!hit || hit.value.text === null) return undefined;
+    madeParts.set(i, { key, hit });
+    return m;
   });
+  let pack: PackTree;
+  let parts: ReturnType<typeof splitParts>;
+  let footnotes: boolean;
+  for (;;) {
+    pack = buildPackTree({
+      config: ws.config,
+      characteristics: reviewed.map((r, i): PackItem => (made[i] ? { brief: r.brief, assessment: r.assessment, made: made[i] } : r)),
+      diagnostics: ws.diagnostics,
+      asOf,
+      fingerprint,
+      tool: TOOL,
+      templates: ws.templates,
+      chartFile,
+      ...(options.audience ? { audience: options.audience } : {}),
+      ...(integrity.rewrite ? { rewritten: rewriteSentence(integrity.rewrite) } : {}),
+      ...(since ? { since } : {}),
+    });
+    parts = splitParts(pack.tree);
+    footnotes = hasFootnotes(pack.tree);
+    // A made section must be a part alone (the pack's template may follow the characteristics with
+    // more), and a tree with footnotes is written whole, from its nodes: where not, build it again.
+    const alone = new Set(parts.flatMap((p) => (p.length === 1 && madeOf(p[0]!) ? [p[0]!] : [])));
+    const keep = made.map((m, i) => m !== undefined && !footnotes && alone.has(pack.sections[i]![0]!));
+    if (made.every((m, i) => m === undefined || keep[i])) break;
+    made = made.map((m, i) => (keep[i] ? m : undefined));
+  }
   lap('tree');
   const packDiagnostics = [...diagnostics, ...pack.diagnostics];
   // The tree's parts (each level-2 section) are kept in the cache, pages, Markdown and HTML, by a key
-  // over their nodes and the keys of their charts' characteristics (whose scenes they draw).
-  const parts = splitParts(pack.tree);
-  const keyOfChart = new Map(options.cache ? ws.characteristics.map((c, i) => [c.configured.id, keys[i]!] as const) : []);
+  // over their nodes' digest and the keys of their charts' characteristics (whose scenes they draw).
+  const sectionAt = new Map(pack.sections.map((nodes, i) => [nodes[0]!, i] as const));
+  const chartIdsOf = (nodes: readonly RootContent[]) => nodes.flatMap((n) => chartIdOf(n) ?? []);
+  const digests: (string | undefined)[] = [];
   const partKeys = options.cache
-    ? parts.map((nodes) => {
-        const charts = nodes.flatMap((n) => {
-          const id = chartIdOf(n);
-          return id === undefined ? [] : [keyOfChart.get(id) ?? `unknown ${id}`];
-        });
-        return partKey(nodes, charts, options.paper);
+    ? parts.map((nodes, p) => {
+        const i = madeOf(nodes[0]!) ? sectionAt.get(nodes[0]!) : undefined;
+        if (i !== undefined) return madeParts.get(i)!.key;
+        const digest = (digests[p] = nodesDigest(nodes));
+        return partKey(digest, chartKeysOf(chartIdsOf(nodes)), options.paper);
       })
     : [];
-  const partHits = partKeys.map((key) => options.partCache?.(key));
+  // What the next build takes of each characteristic's section: where it is a part alone (its own
+  // level-2 heading and nothing else), without footnotes.
+  const sectionsMade = new Map<string, MadeSection>();
+  if (options.cache) {
+    parts.forEach((nodes, p) => {
+      const i = sectionAt.get(nodes[0]!);
+      if (i === undefined) return;
+      const m = madeOf(nodes[0]!);
+      const own = pack.sections[i]!;
+      if (m) sectionsMade.set(sectionKeys[i]!, m);
+      else if (nodes.length === own.length && nodes.every((n, k) => n === own[k]) && !nodes.some(hasFootnotes)) {
+        sectionsMade.set(sectionKeys[i]!, { digest: digests[p]!, headings: madeHeadings(nodes, pack.bases), charts: chartIdsOf(nodes), diagnostics: pack.sectionDiagnostics[i]! });
+      }
+    });
+  }
+  const partHits = partKeys.map((key, p) => {
+    const i = madeOf(parts[p]![0]!) ? sectionAt.get(parts[p]![0]!) : undefined;
+    return i !== undefined ? madeParts.get(i)!.hit : options.partCache?.(key);
+  });
   // Markdown and HTML on the other thread, while this one lays out the PDF. With the cache, a tree
   // without footnotes goes in parts, and the parts an earlier build wrote go as their texts: the
   // worker is sent only the nodes and scenes of the others (a whole plant's were 0.6 s to send).
@@ -333,7 +405,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     }));
   let pagesTree: TextPagesInput['tree'];
   let pageScenes: ReadonlyMap<string, Scene>;
-  if (options.cache && !hasFootnotes(pack.tree)) {
+  if (options.cache && !footnotes) {
     const drawnHere = new Set<string>();
     pagesTree = {
       parts: parts.map((nodes, i): PagePart => {
@@ -386,11 +458,11 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     }
   }
   if (options.png && allowed > 1) lap('charts (waiting for the workers)');
-  for (const a of assessments) {
-    const d = drawn.get(a.characteristic.id);
+  for (const { id } of briefs) {
+    const d = drawn.get(id);
     if (!d) continue;
-    files.set(chartFile(a.characteristic.id), d.svg);
-    if (options.png && d.png) files.set(pngFile(a.characteristic.id), d.png);
+    files.set(chartFile(id), d.svg);
+    if (options.png && d.png) files.set(pngFile(id), d.png);
   }
   const placed = new Map<string, { readonly bytes: number; readonly sha256: string }>([...placedCharts].map(([id, f]) => [chartFile(id), f]));
   const summaryMade = await summaryDone;
@@ -403,16 +475,18 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   const cacheKept = new Set<string>();
   if (options.cache) {
     const shaOf = new Map(outputs.map((o) => [o.path, o.sha256]));
-    assessments.forEach((a, i) => {
+    /** The index of the entries, each with its entry file's size: known once the entry is written (below). */
+    const indexed = new Map<string, { -readonly [K in keyof IndexedEntry]: IndexedEntry[K] }>();
+    reviewed.forEach((r, i) => {
+      const b = r.brief;
       // A very long series would cost more to keep (hundreds of megabytes) than to analyse again.
-      if (a.status === 'assessed' && a.samples.length > (options.maxCachedPoints ?? MAX_CACHED_POINTS)) return;
+      if (b.status === 'assessed' && b.points > (options.maxCachedPoints ?? MAX_CACHED_POINTS)) return;
       const key = keys[i]!;
-      const id = a.characteristic.id;
+      const id = b.id;
       const hit = hits[i];
-      // Each side file is kept (linked) as the earlier build left it, or made here; the entry is
-      // written back as read unless a side file was made (a PNG added to a cached chart).
+      // Each side file is kept (linked) as the earlier build left it, or made here; the entry (the
+      // assessment) is linked as it was unless it could not be read back.
       const sides: Sides = {};
-      let made = false;
       const keep = (kind: SideKind): boolean => {
         const side = hit?.side(kind);
         if (!side) return false;
@@ -424,7 +498,6 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
       const make = <K extends SideKind>(kind: K, file: NonNullable<Sides[K]>, bytes: () => Uint8Array) => {
         Object.assign(sides, { [kind]: file });
         cache.set(sidePath(key, kind), bytes);
-        made = true;
       };
       const scene = scenes.get(id);
       const sceneBytes = placedScenes.get(id);
@@ -433,7 +506,6 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
       } else if (sceneBytes !== undefined) {
         // The worker wrote it (the job's `sceneTo`).
         Object.assign(sides, { scene: { bytes: sceneBytes } });
-        made = true;
       } else if (scene) {
         const bytes = encodeStored(scene);
         make('scene', { bytes: bytes.length }, () => bytes);
@@ -447,17 +519,25 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
       } else if (w) {
         // The worker wrote the side file beside the pack's copy (the job's `to`).
         Object.assign(sides, { svg: w });
-        made = true;
       } else {
         keep('svg');
         keep('png');
       }
       const file = entryPath(key);
-      if (hit && !made) {
-        cache.set(file, hit.bytes);
-        cacheKept.add(file);
-      } else cache.set(file, () => encodeEntry({ assessment: a, sides }));
+      const entry = { brief: b, sides, bytes: hit?.entryBytes ?? 0 };
+      indexed.set(key, entry);
+      // Where the entry cannot be linked, or was not read back, it is written: its size is then known.
+      const write = () => {
+        const bytes = encodeEntry(r.assessment());
+        entry.bytes = bytes.length;
+        return bytes;
+      };
+      cache.set(file, write);
+      if (hit && !spoiled.has(i)) cacheKept.add(file);
     });
+    // After the entries, whose sizes it records (the writer makes the cache's files in this order).
+    cache.set(ENTRY_INDEX, () => encodeStored(indexed));
+    cache.set(SECTION_INDEX, () => encodeStored(sectionsMade));
     // Where each cached characteristic's part of summary.json is, for the next build.
     const pieces = new Map(keys.flatMap((key, i) => (summaryRanges[i] && cache.has(entryPath(key)) ? [[key, summaryRanges[i]] as const] : [])));
     const summary = summaryMade instanceof Uint8Array ? { bytes: summaryMade.length, sha1: createHash('sha1').update(summaryMade).digest('hex') } : summaryMade;
@@ -477,5 +557,5 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   }
   lap('manifest and cache');
   const reused = hits.filter((h) => h !== undefined).length;
-  return { files, placed, copies, cache, cacheKept, cacheUse: { reused, redone: assessments.length - reused }, assessments, diagnostics: packDiagnostics, exitCode };
+  return { files, placed, copies, cache, cacheKept, cacheUse: { reused, redone: briefs.length - reused }, briefs, diagnostics: packDiagnostics, exitCode };
 }

@@ -6,6 +6,7 @@ import type { Assessed, Assessment } from './analyse.ts';
 import type { Diagnostic } from './diagnostics.ts';
 import type { IsoDate, LedgerEntry, ReviewConfig } from './model.ts';
 import type { Signal } from './signals/evaluate.ts';
+import type { Action } from './review/recommend.ts';
 import { family } from './stats/index.ts';
 import { rawExposure } from './review/rates.ts';
 import { TOOL } from './version.ts';
@@ -261,13 +262,66 @@ function evidenceJson(a: Assessed) {
   };
 }
 
-export function buildSummary(config: ReviewConfig, assessments: readonly Assessment[], global: readonly Diagnostic[], asOf: IsoDate, integrity?: Integrity) {
+/** A characteristic's item of summary.json. */
+export function characteristicJson(a: Assessment, period: ReviewConfig['period']) {
+  return a.status === 'assessed'
+    ? assessedJson(a, period)
+    : {
+        id: a.characteristic.id,
+        name: a.characteristic.name,
+        chart: a.characteristic.chart,
+        unit: a.characteristic.unit,
+        better: a.characteristic.better,
+        safety: a.characteristic.safety,
+        tags: a.characteristic.tags,
+        spec: a.characteristic.spec ?? null,
+        status: 'not-assessed' as const,
+        points: [],
+        dispersion: null,
+        baselines: [],
+        signals: [],
+        recommendation: null,
+        changePoint: null,
+        evidence: null,
+        history: a.history.map(historyJson),
+        capability: null,
+        per: a.characteristic.per ?? null,
+        chartChoice: a.characteristic.chosen ?? null,
+        notes: [],
+        overdispersion: null,
+        rates: null,
+        diagnostics: a.diagnostics.map(diagnosticJson),
+      };
+}
+
+export type CharacteristicJson = ReturnType<typeof characteristicJson>;
+
+/** What the counts of summary.json read of a characteristic (a Brief has them). */
+export interface Counted {
+  readonly status: Assessment['status'];
+  readonly action: Action | null;
+  readonly falseAlarm: number | null;
+}
+
+/**
+ * summary.json, with `characteristics` as given (each characteristic's
+ * item, in order: `characteristicJson`'s, or what a build writes in its
+ * place) and the counts made from `counted`, one for each.
+ */
+export function buildSummary<C = CharacteristicJson>(
+  config: ReviewConfig,
+  counted: readonly Counted[],
+  characteristics: readonly C[],
+  global: readonly Diagnostic[],
+  asOf: IsoDate,
+  integrity?: Integrity,
+) {
   const actions: Record<string, number> = { keep: 0, freeze: 0, 're-baseline': 0, investigate: 0 };
   let expectedFalseAlarms = 0;
-  for (const a of assessments) {
+  for (const a of counted) {
     if (a.status !== 'assessed') continue;
-    actions[a.recommendation.action]!++;
-    expectedFalseAlarms += a.evidence.falseAlarm?.probability ?? 0;
+    actions[a.action!]!++;
+    expectedFalseAlarms += a.falseAlarm ?? 0;
   }
   return {
     format: SUMMARY_FORMAT,
@@ -280,43 +334,14 @@ export function buildSummary(config: ReviewConfig, assessments: readonly Assessm
     minPoints: config.minPoints,
     freezeAfter: config.freezeAfter,
     counts: {
-      characteristics: assessments.length,
-      assessed: assessments.filter((a) => a.status === 'assessed').length,
-      notAssessed: assessments.filter((a) => a.status !== 'assessed').length,
+      characteristics: counted.length,
+      assessed: counted.filter((a) => a.status === 'assessed').length,
+      notAssessed: counted.filter((a) => a.status !== 'assessed').length,
       actions,
       /** Characteristics expected to signal in the period from noise alone, were every one stable. */
       expectedFalseAlarms,
     },
-    characteristics: assessments.map((a) =>
-      a.status === 'assessed'
-        ? assessedJson(a, config.period)
-        : {
-            id: a.characteristic.id,
-            name: a.characteristic.name,
-            chart: a.characteristic.chart,
-            unit: a.characteristic.unit,
-            better: a.characteristic.better,
-            safety: a.characteristic.safety,
-            tags: a.characteristic.tags,
-            spec: a.characteristic.spec ?? null,
-            status: 'not-assessed' as const,
-            points: [],
-            dispersion: null,
-            baselines: [],
-            signals: [],
-            recommendation: null,
-            changePoint: null,
-            evidence: null,
-            history: a.history.map(historyJson),
-            capability: null,
-            per: a.characteristic.per ?? null,
-            chartChoice: a.characteristic.chosen ?? null,
-            notes: [],
-            overdispersion: null,
-            rates: null,
-            diagnostics: a.diagnostics.map(diagnosticJson),
-          },
-    ),
+    characteristics,
     integrity: integrity
       ? {
           ledgerRows: integrity.chain.rows,
@@ -330,5 +355,13 @@ export function buildSummary(config: ReviewConfig, assessments: readonly Assessm
   };
 }
 
+/** summary.json of assessments made here (a build takes the counts from the briefs, and may write items it kept). */
+export function summaryOf(config: ReviewConfig, assessments: readonly Assessment[], global: readonly Diagnostic[], asOf: IsoDate, integrity?: Integrity) {
+  const counted = assessments.map((a): Counted =>
+    a.status === 'assessed' ? { status: a.status, action: a.recommendation.action, falseAlarm: a.evidence.falseAlarm?.probability ?? null } : { status: a.status, action: null, falseAlarm: null },
+  );
+  return buildSummary(config, counted, assessments.map((a) => characteristicJson(a, config.period)), global, asOf, integrity);
+}
+
 /** summary.json as a reader parses it (buildSummary's point lists are made as they are written). */
-export type Summary = Serialized<ReturnType<typeof buildSummary>>;
+export type Summary = Serialized<ReturnType<typeof buildSummary<CharacteristicJson>>>;

@@ -281,8 +281,8 @@ describe('what the cache keeps', () => {
     if (!loaded.ok) throw new Error('the demo does not load');
     const ws = loaded.workspace;
     const plan = await planPack(ws, ws.config.period.to, { paper: 'a4', png: false, jobs: 1, cache: () => undefined, maxCachedPoints: 40 });
-    const counts = plan.assessments.map((a) => (a.status === 'assessed' ? a.samples.length : 0));
-    // Counted from the assessments themselves: one entry per characteristic of at most 40 points, with
+    const counts = plan.briefs.map((b) => b.points);
+    // Counted from each brief (its assessment's points): one entry per characteristic of at most 40 points, with
     // its side files (the pack's parts, `part-` entries, are kept whatever their charts' size).
     const entries = [...plan.cache.keys()].filter((k) => /^[0-9a-f]{64}\.v8$/.test(path.basename(k)));
     const sides = [...plan.cache.keys()].filter((k) => /^[0-9a-f]{64}\.(svg|png|scene)$/.test(path.basename(k)));

@@ -12,7 +12,7 @@ import { planSummary } from '../src/assess.ts';
 import { SCHEMA_FILES, schemaText } from '../src/schemas.ts';
 import { summarySchema } from '../src/summary-schema.ts';
 import { loadWorkspace } from '../src/workspace/load.ts';
-import { buildSummary } from '../src/summary.ts';
+import { summaryOf } from '../src/summary.ts';
 import { assess } from './helpers/in-memory.ts';
 
 const ROOT = path.join(import.meta.dirname, '..');
@@ -54,7 +54,7 @@ describe('JSON Schemas in schemas/', () => {
   it('a characteristic that cannot be assessed is described by the schema too', () => {
     const a = assess({ chart: 'individuals', csv: 'label,date,value\n1,2026-01-01,abc\n' });
     expect(a.status).toBe('not-assessed');
-    const s = JSON.parse(JSON.stringify(buildSummary({ ...loaded.workspace.config, characteristics: [a.characteristic] }, [a], [], '2026-11-30')));
+    const s = JSON.parse(JSON.stringify(summaryOf({ ...loaded.workspace.config, characteristics: [a.characteristic] }, [a], [], '2026-11-30')));
     expect(validateSummary(s)).toBe(true);
     expect(s.characteristics[0].status).toBe('not-assessed');
   });

@@ -5,7 +5,7 @@ import path from 'node:path';
 import { planSummary } from '../assess.ts';
 import { moderateHeapGrowth } from '../collect.ts';
 import type { PreviousLedger, RewriteRecord } from '../review/ledger-chain.ts';
-import type { Assessment } from '../analyse.ts';
+import type { Brief } from '../pack/brief.ts';
 import { type Diagnostic, hasErrors } from '../diagnostics.ts';
 import { checkOutDir, discardPackFolder, fileSink, openPackFolder, recoverInterrupted, writePack } from '../pack/write.ts';
 import { RECORD_FILE, type SummaryLike, comparisonRecord, previousSummarySchema } from '../review/since.ts';
@@ -16,7 +16,7 @@ import { selectByTag, tagsOf } from '../workspace/select.ts';
 import { EXIT, type Io, UsageError, diagnosticJson, parse, plural, printDiagnostics, workspaceArg } from './common.ts';
 import { HELP } from './help.ts';
 
-function resultJson(command: string, workspace: string, exitCode: number, diagnostics: readonly Diagnostic[], assessments: readonly Assessment[], extra: object = {}) {
+function resultJson(command: string, workspace: string, exitCode: number, diagnostics: readonly Diagnostic[], briefs: readonly Brief[], extra: object = {}) {
   return JSON.stringify(
     {
       tool: TOOL,
@@ -24,13 +24,7 @@ function resultJson(command: string, workspace: string, exitCode: number, diagno
       workspace,
       exitCode,
       ...extra,
-      characteristics: assessments.map((a) => ({
-        id: a.characteristic.id,
-        status: a.status,
-        action: a.status === 'assessed' ? a.recommendation.action : null,
-        reasons: a.status === 'assessed' ? a.recommendation.reasons : [],
-        ledger: a.status === 'assessed' ? a.recommendation.ledger : [],
-      })),
+      characteristics: briefs.map((b) => ({ id: b.id, status: b.status, action: b.action, reasons: b.reasons, ledger: b.ledger })),
       diagnostics: diagnostics.map(diagnosticJson),
     },
     null,
@@ -53,14 +47,14 @@ export function check(args: readonly string[], io: Io): number {
   }
   const plan = planSummary(loaded.workspace, loaded.workspace.config.period.to);
   const code = plan.exitCode === 0 && !hasErrors(plan.diagnostics) ? EXIT.ok : EXIT.notAssessed;
-  if (values.json) return io.out(resultJson('check', dir, code, plan.diagnostics, plan.assessments)), code;
+  if (values.json) return io.out(resultJson('check', dir, code, plan.diagnostics, plan.briefs)), code;
   printDiagnostics(io, plan.diagnostics, values.quiet === true);
-  const bad = plan.assessments.filter((a) => a.status !== 'assessed').map((a) => a.characteristic.id);
+  const bad = plan.briefs.filter((b) => b.status !== 'assessed').map((b) => b.id);
   const errors = plan.diagnostics.filter((d) => d.severity === 'error').length;
   io.out(
     bad.length > 0 || errors > 0
-      ? `${plural(errors, 'error')}; ${bad.length} of ${plan.assessments.length} characteristics cannot be assessed${bad.length ? `: ${bad.join(', ')}` : ''}.`
-      : `No errors; ${plan.assessments.length} characteristics can be assessed.`,
+      ? `${plural(errors, 'error')}; ${bad.length} of ${plan.briefs.length} characteristics cannot be assessed${bad.length ? `: ${bad.join(', ')}` : ''}.`
+      : `No errors; ${plan.briefs.length} characteristics can be assessed.`,
   );
   return code;
 }
@@ -170,7 +164,7 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
   const progress = quiet || !io.progress ? undefined : io.progress.bind(io);
   // The renderers are loaded only when a pack is built.
   const { planPack } = await import('../build.ts');
-  const { openCache, openPartCache, openSummaryPieces } = await import('../pack/build-cache.ts');
+  const { openCache, openMadeSections, openPartCache, openSummaryPieces } = await import('../pack/build-cache.ts');
   // The pack's temporary folder, from here: summary.json is written into it as the analysis makes it.
   const folder = openPackFolder(outDir);
   let plan: Awaited<ReturnType<typeof planPack>>;
@@ -180,7 +174,7 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
       summarySink: () => fileSink(folder, 'summary.json'),
       chartsInto: folder.temp,
       ...(jobs !== undefined ? { jobs } : {}),
-      ...(values['no-cache'] === true ? {} : { cache: openCache(outDir), partCache: openPartCache(outDir), summaryPieces: openSummaryPieces(outDir) }),
+      ...(values['no-cache'] === true ? {} : { cache: openCache(outDir), partCache: openPartCache(outDir), summaryPieces: openSummaryPieces(outDir), madeSections: openMadeSections(outDir) }),
       png: values.png === true,
       ...(previous ? { previous } : {}),
       ...(previousLedger ? { previousLedger } : {}),
@@ -193,18 +187,18 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
   }
   progress?.('');
   writePack(folder, plan.files, plan.cache, plan.cacheKept, plan.copies);
-  if (json) return io.out(resultJson('build', dir, plan.exitCode, plan.diagnostics, plan.assessments, { out: outDir, files: [...plan.files.keys(), ...plan.placed.keys(), ...plan.copies.keys()].sort(), comparedWith: previous?.asOf ?? null, cache: values['no-cache'] === true ? null : plan.cacheUse })), plan.exitCode;
+  if (json) return io.out(resultJson('build', dir, plan.exitCode, plan.diagnostics, plan.briefs, { out: outDir, files: [...plan.files.keys(), ...plan.placed.keys(), ...plan.copies.keys()].sort(), comparedWith: previous?.asOf ?? null, cache: values['no-cache'] === true ? null : plan.cacheUse })), plan.exitCode;
   printDiagnostics(io, plan.diagnostics, quiet);
   const counts = new Map<string, number>();
-  for (const a of plan.assessments) {
-    const key = a.status === 'assessed' ? a.recommendation.action : 'cannot be assessed';
+  for (const b of plan.briefs) {
+    const key = b.action ?? 'cannot be assessed';
     counts.set(key, (counts.get(key) ?? 0) + 1);
   }
   const order = ['investigate', 're-baseline', 'freeze', 'keep', 'cannot be assessed'];
   const parts = order.filter((k) => counts.has(k)).map((k) => `${counts.get(k)} ${k}`);
   const manifestSha = createHash('sha256').update(plan.files.get('manifest.json')!).digest('hex');
   io.out(
-    `Built ${plural(plan.assessments.length, 'characteristic')}${audience ? ` tagged ${audience.tag}${audience.name ? ` (for ${audience.name})` : ''}` : ''} into ${outDir}: ${parts.join(', ')}.${previous ? ` Compared with the pack built for ${previous.asOf}.` : ''}`,
+    `Built ${plural(plan.briefs.length, 'characteristic')}${audience ? ` tagged ${audience.tag}${audience.name ? ` (for ${audience.name})` : ''}` : ''} into ${outDir}: ${parts.join(', ')}.${previous ? ` Compared with the pack built for ${previous.asOf}.` : ''}`,
   );
   if (!quiet) io.out(`manifest.json SHA-256 ${manifestSha}: send it apart from the pack; plumbline verify checks a copy against its manifest.`);
   return plan.exitCode;

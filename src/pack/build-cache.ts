@@ -16,8 +16,10 @@ import { createHash } from 'node:crypto';
 import { closeSync, openSync, readFileSync, readSync, statSync } from 'node:fs';
 import path from 'node:path';
 import { deserialize, serialize } from 'node:v8';
-import type { RootContent } from 'mdast';
 import type { Assessment } from '../analyse.ts';
+import type { Brief } from './brief.ts';
+import type { MadeSection } from './made-section.ts';
+import type { Template } from './template.ts';
 import type { IsoDate } from '../model.ts';
 import type { LaidOutPart, Paper } from './pdf.ts';
 import type { PartText } from './text-pages.ts';
@@ -27,7 +29,7 @@ import type { CharacteristicInput, Workspace } from '../workspace/load.ts';
 
 export const CACHE_DIR = '.plumbline-cache';
 /** Bump when what an entry holds, or how it is computed, changes without a tool version change. */
-const FORMAT = 8;
+const FORMAT = 9;
 
 /**
  * What is kept beside an entry, each in a file of its own that a rebuild
@@ -56,9 +58,16 @@ export interface Sides {
   scene?: SizedFile;
 }
 
-export interface CacheEntry {
-  readonly assessment: Assessment;
+/**
+ * What the cache's index holds of a characteristic: its brief and its side
+ * files, and the size of its entry file (which holds its assessment). A
+ * rebuild reads the index alone for an unchanged characteristic, and its
+ * entry only if its chart or section must be made again.
+ */
+export interface IndexedEntry {
+  readonly brief: Brief;
   readonly sides: Readonly<Sides>;
+  readonly bytes: number;
 }
 
 /** A side file of a cache hit: where it is (relative to the pack folder), its record, and its bytes when read. */
@@ -69,9 +78,13 @@ export interface Side<F extends SizedFile = SizedFile> {
 }
 
 export interface CacheHit {
-  readonly entry: CacheEntry;
-  /** The entry file's bytes (read again only if the file cannot be linked). */
-  readonly bytes: () => Uint8Array;
+  readonly brief: Brief;
+  readonly sides: Readonly<Sides>;
+  /** Its assessment, read from its entry file when first asked for; undefined if that file is not what was written (it is then made afresh). */
+  assessment(): Assessment | undefined;
+  /** Where its entry file is (relative to the pack folder), and its size: linked, not read, by a rebuild that keeps it. */
+  readonly path: string;
+  readonly entryBytes: number;
   readonly side: <K extends SideKind>(kind: K) => Side<NonNullable<Sides[K]>> | undefined;
 }
 
@@ -98,7 +111,8 @@ export const sidePath = (key: string, kind: SideKind) => `${CACHE_DIR}/${key}.${
 /** What the cache keeps, as its file's bytes (V8's serialisation, read back by openStored). */
 export const encodeStored = (value: unknown): Uint8Array => new Uint8Array(serialize(value));
 
-export const encodeEntry: (e: CacheEntry) => Uint8Array = encodeStored;
+/** An entry file: the assessment alone. */
+export const encodeEntry: (a: Assessment) => Uint8Array = encodeStored;
 
 /**
  * What an earlier build left in `packDir` under `pathOf(key)`, read on
@@ -132,33 +146,55 @@ function openStored<T>(packDir: string, pathOf: (key: string) => string, valid: 
 const isSideFile = (kind: string, f: unknown): boolean =>
   typeof f === 'object' && f !== null && Number.isSafeInteger((f as SizedFile).bytes) && (kind === 'scene' || typeof (f as HashedFile).sha256 === 'string');
 
-const isEntry = (e: unknown): e is CacheEntry =>
+const isIndexed = (e: unknown): e is IndexedEntry =>
   typeof e === 'object' &&
   e !== null &&
-  typeof (e as CacheEntry).assessment === 'object' &&
-  typeof (e as CacheEntry).sides === 'object' &&
-  (e as CacheEntry).sides !== null &&
-  Object.entries((e as CacheEntry).sides).every(([kind, f]) => (SIDE_KINDS as readonly string[]).includes(kind) && isSideFile(kind, f));
+  typeof (e as IndexedEntry).brief === 'object' &&
+  (e as IndexedEntry).brief !== null &&
+  Number.isSafeInteger((e as IndexedEntry).bytes) &&
+  typeof (e as IndexedEntry).sides === 'object' &&
+  (e as IndexedEntry).sides !== null &&
+  Object.entries((e as IndexedEntry).sides).every(([kind, f]) => (SIDE_KINDS as readonly string[]).includes(kind) && isSideFile(kind, f));
+
+/** The cache's index of characteristics (IndexedEntry, by cache key), written by each build after their entries. */
+export const ENTRY_INDEX = `${CACHE_DIR}/entries.v8`;
+
+/** Reads a map the cache keeps in one file; an empty one if the file is missing or not such a map. */
+function readIndex(packDir: string, file: string): ReadonlyMap<string, unknown> {
+  try {
+    const index: unknown = deserialize(readFileSync(path.join(packDir, file)));
+    return index instanceof Map ? index : new Map();
+  } catch {
+    return new Map();
+  }
+}
+
+const sizeOf = (file: string): number | undefined => {
+  try {
+    return statSync(file).size;
+  } catch {
+    return undefined;
+  }
+};
 
 /**
- * The characteristics' entries an earlier build left in `packDir`. An entry
- * is a hit only if every side file it names is there at its size; a side
- * file that then cannot be read is an error (the cache changed during the
- * build), not a wrong pack.
+ * The characteristics an earlier build left in `packDir`, by cache key. A
+ * key is a hit only if its entry file and every side file it names are
+ * there at their sizes; a side file that then cannot be read is an error
+ * (the cache changed during the build), not a wrong pack.
  */
 export function openCache(packDir: string): (key: string) => CacheHit | undefined {
-  const read = openStored(packDir, entryPath, isEntry);
+  const index = readIndex(packDir, ENTRY_INDEX);
   return (key) => {
-    const hit = read(key);
-    if (!hit) return undefined;
-    const sides = hit.value.sides;
+    const indexed = index.get(key);
+    if (!isIndexed(indexed)) return undefined;
+    const at = entryPath(key);
+    if (sizeOf(path.join(packDir, at)) !== indexed.bytes) return undefined;
+    const sides = indexed.sides;
     for (const [kind, file] of Object.entries(sides) as [SideKind, SizedFile][]) {
-      try {
-        if (statSync(path.join(packDir, sidePath(key, kind))).size !== file.bytes) return undefined;
-      } catch {
-        return undefined;
-      }
+      if (sizeOf(path.join(packDir, sidePath(key, kind))) !== file.bytes) return undefined;
     }
+    let assessment: Assessment | undefined | null = null;
     const side = <K extends SideKind>(kind: K): Side<NonNullable<Sides[K]>> | undefined => {
       const file = sides[kind] as NonNullable<Sides[K]> | undefined;
       if (!file) return undefined;
@@ -173,17 +209,59 @@ export function openCache(packDir: string): (key: string) => CacheHit | undefine
         },
       };
     };
-    return { entry: hit.value, bytes: hit.bytes, side };
+    return {
+      brief: indexed.brief,
+      sides,
+      path: at,
+      entryBytes: indexed.bytes,
+      side,
+      assessment: () => {
+        if (assessment === null) {
+          try {
+            const value: unknown = deserialize(readFileSync(path.join(packDir, at)));
+            assessment = typeof value === 'object' && value !== null && 'status' in value && 'characteristic' in value ? (value as Assessment) : undefined;
+          } catch {
+            assessment = undefined;
+          }
+        }
+        return assessment;
+      },
+    };
+  };
+}
+
+/** The key under which a characteristic's made section is kept: its cache key and the template its section is filled from. */
+export function sectionKey(key: string, template: Template): string {
+  return createHash('sha256').update(JSON.stringify([FORMAT, key, template.file, template.text])).digest('hex');
+}
+
+/** The cache's made sections (by `sectionKey`), written by each build. */
+export const SECTION_INDEX = `${CACHE_DIR}/sections.v8`;
+
+const isMadeSection = (m: unknown): m is MadeSection =>
+  typeof m === 'object' &&
+  m !== null &&
+  typeof (m as MadeSection).digest === 'string' &&
+  Array.isArray((m as MadeSection).headings) &&
+  Array.isArray((m as MadeSection).charts) &&
+  Array.isArray((m as MadeSection).diagnostics);
+
+/** The characteristics' sections as an earlier build made them, by section key. */
+export function openMadeSections(packDir: string): (key: string) => MadeSection | undefined {
+  const index = readIndex(packDir, SECTION_INDEX);
+  return (key) => {
+    const made = index.get(key);
+    return isMadeSection(made) ? made : undefined;
   };
 }
 
 /**
  * The key of one part of pack.pdf (a level-2 section, laid out alone): the
- * tool, the paper, the part's nodes and the keys of the characteristics
+ * tool, the paper, the digest of the part's nodes (`nodesDigest`) and the keys of the characteristics
  * whose charts it draws (their scenes are made from what those keys hash).
  */
-export function partKey(nodes: readonly RootContent[], chartKeys: readonly string[], paper: Paper): string {
-  return createHash('sha256').update(JSON.stringify([FORMAT, TOOL, paper, chartKeys, nodes])).digest('hex');
+export function partKey(digest: string, chartKeys: readonly string[], paper: Paper): string {
+  return createHash('sha256').update(JSON.stringify([FORMAT, TOOL, paper, chartKeys, digest])).digest('hex');
 }
 
 /**

@@ -22,10 +22,13 @@ import { type Templates, fillTemplate } from './template.ts';
 import type { SinceReport } from '../review/since.ts';
 import { capabilityBlocks, keyFigure, notesBlocks, rateBlocks } from './figures.ts';
 import { chartCautionBlocks } from './cautions.ts';
+import { type Brief, actionWords, periodIndices } from './brief.ts';
+import { type MadeSection, madeOf, sectionNode } from './made-section.ts';
 
 export interface PackInput {
   readonly config: ReviewConfig;
-  readonly assessments: readonly Assessment[];
+  /** Every characteristic, in order. */
+  readonly characteristics: readonly PackItem[];
   /** Problems that belong to no one characteristic. */
   readonly diagnostics: readonly Diagnostic[];
   readonly asOf: IsoDate;
@@ -42,20 +45,20 @@ export interface PackInput {
   readonly audience?: { readonly tag: string; readonly name: string | null };
 }
 
-export const sectionId = (characteristicId: string) => `c-${characteristicId}`;
-
-const ACTION_WORDS = {
-  keep: 'keep the limits',
-  freeze: 'freeze the trial limits',
-  're-baseline': 're-baseline',
-  investigate: 'investigate',
-} as const;
-
-/** The action in words; "keep" while a baseline is still collecting means keep collecting. */
-function actionWords(a: Assessed): string {
-  const b = a.baselines[a.baselines.length - 1]!;
-  return a.recommendation.action === 'keep' && !b.limits ? 'keep collecting points' : ACTION_WORDS[a.recommendation.action];
+/** A characteristic as the tree is built from it. */
+export interface PackItem {
+  readonly brief: Brief;
+  /** Its assessment, read back from the build cache only if its section is built here. */
+  assessment(): Assessment;
+  /**
+   * Its section as an earlier build made it: the tree holds it as one node
+   * (a part whose pages, Markdown and HTML that build left), unless its
+   * headings get other ids here; then it is built again.
+   */
+  readonly made?: MadeSection;
 }
+
+export const sectionId = (characteristicId: string) => `c-${characteristicId}`;
 
 const ESTIMATE_WORDS: Readonly<Record<string, string>> = {
   mean: 'mean',
@@ -77,29 +80,6 @@ const ESTIMATE_WORDS: Readonly<Record<string, string>> = {
   mrBarY: 'mean moving range of t^(1/3.6)',
   sigmaY: 'sigma of t^(1/3.6)',
 };
-
-/** Safety-related or incident-count characteristics bring the cautions section (DESIGN.md, "Cautions"). */
-export function needsCautions(a: Assessment): boolean {
-  const c = a.characteristic;
-  return c.safety || c.tags.some((t) => t === 'incident' || t === 'incidents');
-}
-
-
-function limitStatus(a: Assessment): string {
-  if (a.status !== 'assessed') return 'cannot be assessed';
-  const b = a.baselines[a.baselines.length - 1]!;
-  if (b.source === 'standard') return 'standard values';
-  if (!b.limits) return 'collecting';
-  return b.status;
-}
-
-function periodIndices(a: Assessed, config: ReviewConfig): number[] {
-  return a.samples.map((s, i) => (s.date >= config.period.from && s.date <= config.period.to ? i : -1)).filter((i) => i >= 0);
-}
-
-function signalsInPeriod(a: Assessed, inPeriod: ReadonlySet<number>): Signal[] {
-  return [...a.location.signals, ...(a.dispersion?.signals ?? [])].filter((s) => s.flagged.some((i) => inPeriod.has(i)));
-}
 
 function range(values: readonly number[], decimals: number): string {
   let lo = Infinity;
@@ -386,63 +366,49 @@ function sinceBlocks(s: SinceReport | undefined): RootContent[] {
 }
 
 function decisionBlocks(input: PackInput): RootContent[] {
-  const pending = input.assessments.filter((a) => a.status !== 'assessed' || a.recommendation.action !== 'keep');
+  const briefs = input.characteristics.map((c) => c.brief);
+  const pending = briefs.filter((b) => b.action !== 'keep');
   if (pending.length === 0) return [paragraph('No decisions are needed: every characteristic keeps its limits.')];
   const order = { investigate: 0, 're-baseline': 1, freeze: 2, keep: 3 } as const;
-  const rank = (a: Assessment) => (a.status === 'assessed' ? order[a.recommendation.action] : -1);
-  const sorted = pending.slice().sort((x, y) => rank(x) - rank(y) || (x.characteristic.id < y.characteristic.id ? -1 : 1));
+  const rank = (b: Brief) => (b.action === null ? -1 : order[b.action]);
+  const sorted = pending.slice().sort((x, y) => rank(x) - rank(y) || (x.id < y.id ? -1 : 1));
   return [
-    paragraph(`${plural(pending.length, 'characteristic')} of ${input.assessments.length} need a decision this period.`),
-    ...sorted.flatMap((a): RootContent[] => {
-      const c = a.characteristic;
-      const title = link(`#${sectionId(c.id)}`, c.name);
-      if (a.status !== 'assessed') {
+    paragraph(`${plural(pending.length, 'characteristic')} of ${briefs.length} need a decision this period.`),
+    ...sorted.flatMap((b): RootContent[] => {
+      const title = link(`#${sectionId(b.id)}`, b.name);
+      if (b.status !== 'assessed') {
         return [
           heading(3, undefined, title, ' — cannot be assessed'),
-          list(sortDiagnostics(a.diagnostics).filter((d) => d.severity === 'error').map((d) => [formatDiagnostic(d)])),
+          list(sortDiagnostics(b.diagnostics).filter((d) => d.severity === 'error').map((d) => [formatDiagnostic(d)])),
         ];
       }
-      return [
-        heading(3, undefined, title, ` — ${actionWords(a)}`),
-        list(a.recommendation.reasons.map((r) => [r])),
-        ...(a.recommendation.ledger.length ? [code(a.recommendation.ledger.join('\n'), 'csv')] : []),
-      ];
+      return [heading(3, undefined, title, ` — ${b.actionWords}`), list(b.reasons.map((r) => [r])), ...(b.ledger.length ? [code(b.ledger.join('\n'), 'csv')] : [])];
     }),
-    ...(sorted.some((a) => a.status === 'assessed' && a.recommendation.ledger.length)
+    ...(sorted.some((b) => b.ledger.length)
       ? [paragraph('Append a line to ledger.csv only once the decision is taken; plumbline never writes to the ledger.')]
       : []),
   ];
 }
 
 function overviewBlocks(input: PackInput): RootContent[] {
-  const rows = input.assessments.map((a) => {
-    const c = a.characteristic;
-    const name = [link(`#${sectionId(c.id)}`, c.name)];
-    if (a.status !== 'assessed') return [name, c.chart, limitStatus(a), '–', '–', '–', '–', 'cannot be assessed'];
-    const inPeriod = new Set(periodIndices(a, input.config));
-    const inPeriodSignals = signalsInPeriod(a, inPeriod);
-    const flagged = new Set(inPeriodSignals.flatMap((s) => s.flagged.filter((i) => inPeriod.has(i))));
-    const open = new Set(inPeriodSignals.filter((s) => !s.explained).flatMap((s) => s.flagged.filter((i) => inPeriod.has(i))));
-    const signals = flagged.size === 0 ? 'none' : `${plural(flagged.size, 'point')} flagged${open.size === 0 ? ', all explained' : open.size < flagged.size ? `, ${open.size} unexplained` : ''}`;
-    const noise = a.evidence.falseAlarm ? pct(a.evidence.falseAlarm.probability, 0) : '–';
-    return [name, c.chart, limitStatus(a), String(inPeriod.size), signals, noise, keyFigure(a), actionWords(a)];
-  });
-  const expected = input.assessments.reduce((s, a) => s + (a.status === 'assessed' ? (a.evidence.falseAlarm?.probability ?? 0) : 0), 0);
+  const briefs = input.characteristics.map((c) => c.brief);
+  const rows = briefs.map((b) => [[link(`#${sectionId(b.id)}`, b.name)], ...b.overview]);
+  const expected = briefs.reduce((s, b) => s + (b.falseAlarm ?? 0), 0);
   return [
     table(['Characteristic', 'Chart', 'Limits', 'Points in period', 'Signals in period', 'Noise alone', 'Key figure', 'Action'], rows, [null, null, null, 'right', null, 'right', null, null]),
     paragraph(
       strong('False-alarm budget.'),
-      ` "Noise alone" is the chance that the characteristic would show at least one signal this period even if nothing had changed, given ${rulesInWords(input.config)} and its number of points in the period. Were every characteristic stable, about ${fmt(expected, 1)} of these ${input.assessments.length} would still signal from noise alone, so expect some investigations to find no cause.`,
+      ` "Noise alone" is the chance that the characteristic would show at least one signal this period even if nothing had changed, given ${rulesInWords(input.config)} and its number of points in the period. Were every characteristic stable, about ${fmt(expected, 1)} of these ${briefs.length} would still signal from noise alone, so expect some investigations to find no cause.`,
     ),
   ];
 }
 
 function cautionBlocks(input: PackInput, diagnostics: Diagnostic[]): RootContent[] {
-  const flagged = input.assessments.filter(needsCautions);
+  const flagged = input.characteristics.map((c) => c.brief).filter((b) => b.cautions !== null);
   if (flagged.length === 0) return [];
   const filled = fillTemplate(input.templates.cautions, {
     blocks: {
-      'safety-characteristics': [list(flagged.map((a) => [link(`#${sectionId(a.characteristic.id)}`, a.characteristic.name)]))],
+      'safety-characteristics': [list(flagged.map((b) => [link(`#${sectionId(b.id)}`, b.name)]))],
       'chart-cautions': chartCautionBlocks(flagged),
     },
     strings: {},
@@ -477,23 +443,70 @@ function methodBlocks(input: PackInput, diagnostics: Diagnostic[]): RootContent[
   return filled.nodes;
 }
 
-/** Gives every section heading (depth ≤ 2) a unique id and returns the contents list. */
-function assignIds(nodes: RootContent[]): { id: string; title: string }[] {
+/**
+ * Gives every section heading (depth ≤ 2) a unique id and returns the
+ * contents list. A made section's headings get their ids by the same rule;
+ * `replayed` is false if one would now get another id than it had (its
+ * nodes, and so its part, would not be the same).
+ */
+function assignIds(nodes: RootContent[]): { contents: { id: string; title: string }[]; replayed: boolean; bases: Map<RootContent, string> } {
   const seen = new Set<string>();
+  const bases = new Map<RootContent, string>();
   const contents: { id: string; title: string }[] = [];
-  for (const n of nodes) {
-    if (n.type !== 'heading' || n.depth > 2) continue;
-    const given = (n.data?.hProperties as { id?: string } | undefined)?.id;
-    let id = given ?? slug(plain(n));
-    for (let k = 2; seen.has(id); k++) id = `${given ?? slug(plain(n))}-${k}`;
+  let replayed = true;
+  const unique = (base: string) => {
+    let id = base;
+    for (let k = 2; seen.has(id); k++) id = `${base}-${k}`;
     seen.add(id);
+    return id;
+  };
+  for (const n of nodes) {
+    const made = madeOf(n);
+    if (made) {
+      for (const h of made.headings) {
+        if (unique(h.base) !== h.id) replayed = false;
+        if (h.depth === 2) contents.push({ id: h.id, title: h.title });
+      }
+      continue;
+    }
+    if (n.type !== 'heading' || n.depth > 2) continue;
+    const base = headingBase(n);
+    bases.set(n, base);
+    const id = unique(base);
     n.data = { ...n.data, hProperties: { ...(n.data?.hProperties ?? {}), id } };
     if (n.depth === 2) contents.push({ id, title: plain(n) });
   }
-  return contents;
+  return { contents, replayed, bases };
 }
 
-export function buildPackTree(input: PackInput): { tree: Root; diagnostics: Diagnostic[] } {
+/** A heading's id before duplicates are told apart: the one given it, or its text's slug. */
+function headingBase(n: Heading): string {
+  return (n.data?.hProperties as { id?: string } | undefined)?.id ?? slug(plain(n));
+}
+
+/** What a made section records of its headings of level 1 and 2, once the tree has given them ids. */
+export function madeHeadings(nodes: readonly RootContent[], bases: ReadonlyMap<RootContent, string>): MadeSection['headings'] {
+  return nodes.flatMap((n) => (n.type === 'heading' && n.depth <= 2 ? [{ base: bases.get(n) ?? headingBase(n), id: headingBase(n), depth: n.depth, title: plain(n) }] : []));
+}
+
+/** The pack's tree, with what a build keeps of it for the next one. */
+export interface PackTree {
+  readonly tree: Root;
+  readonly diagnostics: Diagnostic[];
+  /** Each characteristic's section, as the nodes (the first placement) the tree holds it as: one made-section node where it was made before. */
+  readonly sections: readonly (readonly RootContent[])[];
+  /** What each heading's id was before duplicates were told apart (see `madeHeadings`). */
+  readonly bases: ReadonlyMap<RootContent, string>;
+  /** What filling each characteristic's template reported. */
+  readonly sectionDiagnostics: readonly (readonly Diagnostic[])[];
+}
+
+/**
+ * The pack as one tree. A characteristic's made section goes in as it was
+ * made, unless a heading of it would get another id here (a heading
+ * elsewhere took the id first): then every section is built again.
+ */
+export function buildPackTree(input: PackInput): PackTree {
   const diagnostics: Diagnostic[] = [];
   const { config } = input;
   const globalIssues: RootContent[] = input.diagnostics.length
@@ -501,8 +514,9 @@ export function buildPackTree(input: PackInput): { tree: Root; diagnostics: Diag
     : [];
   const CONTENTS = '\u0000contents';
   const counts = new Map<string, number>();
-  for (const a of input.assessments) {
-    const key = a.status === 'assessed' ? a.recommendation.action : 'cannot be assessed';
+  const briefs = input.characteristics.map((c) => c.brief);
+  for (const b of briefs) {
+    const key = b.action ?? 'cannot be assessed';
     counts.set(key, (counts.get(key) ?? 0) + 1);
   }
   const actionOrder = ['investigate', 're-baseline', 'freeze', 'keep', 'cannot be assessed'];
@@ -514,13 +528,21 @@ export function buildPackTree(input: PackInput): { tree: Root; diagnostics: Diag
       ['Organisation', config.organisation || '–'],
       ['Review period', `${config.period.from} to ${config.period.to}`],
       ['Built for', input.asOf],
-      ['Characteristics', String(input.assessments.length)],
+      ['Characteristics', String(briefs.length)],
       ['Recommendations', actionOrder.filter((k) => counts.has(k)).map((k) => `${counts.get(k)} ${k}`).join(', ')],
-      ['Safety-related', String(input.assessments.filter(needsCautions).length)],
+      ['Safety-related', String(briefs.filter((b) => b.cautions !== null).length)],
       ['Input fingerprint', input.fingerprint],
       ['Built with', `${input.tool.name} ${input.tool.version}`],
     ],
   );
+  const sectionDiagnostics: (readonly Diagnostic[])[] = [];
+  const sections = input.characteristics.map((c, i): RootContent[] => {
+    const own: Diagnostic[] = c.made ? [...c.made.diagnostics] : [];
+    const nodes = c.made ? [sectionNode(c.made)] : characteristicBlocks(c.assessment(), input, own);
+    diagnostics.push(...own);
+    sectionDiagnostics[i] = own;
+    return nodes;
+  });
   const filled = fillTemplate(input.templates.pack, {
     blocks: {
       // Built by hand, not with text(): text() strips control characters, so no data can produce this marker.
@@ -529,7 +551,7 @@ export function buildPackTree(input: PackInput): { tree: Root; diagnostics: Diag
       cover: [cover],
       decisions: decisionBlocks(input),
       overview: overviewBlocks(input),
-      characteristics: input.assessments.flatMap((a) => characteristicBlocks(a, input, diagnostics)),
+      characteristics: sections.flat(),
       cautions: cautionBlocks(input, diagnostics),
       method: methodBlocks(input, diagnostics),
       'data-issues': globalIssues,
@@ -543,7 +565,7 @@ export function buildPackTree(input: PackInput): { tree: Root; diagnostics: Diag
       fingerprint: input.fingerprint,
       'fingerprint-short': input.fingerprint.slice(0, 16),
       tool: `${input.tool.name} ${input.tool.version}`,
-      count: String(input.assessments.length),
+      count: String(briefs.length),
     },
   });
   diagnostics.push(...filled.diagnostics);
@@ -553,7 +575,8 @@ export function buildPackTree(input: PackInput): { tree: Root; diagnostics: Diag
     const title = nodes.findIndex((n) => n.type === 'heading' && n.depth === 1);
     nodes.splice(title + 1, 0, heading(2, 'ledger-history-rewritten', 'Ledger history rewritten'), paragraph(strong('Warning.'), ` ${input.rewritten}`));
   }
-  const contents = assignIds(nodes);
+  const { contents, replayed, bases } = assignIds(nodes);
+  if (!replayed) return buildPackTree({ ...input, characteristics: input.characteristics.map((c) => ({ brief: c.brief, assessment: () => c.assessment() })) });
   const at = nodes.findIndex((n) => n.type === 'paragraph' && plain(n) === CONTENTS);
   if (at >= 0) {
     nodes.splice(at, 1, list(contents.filter((c) => c.id !== 'contents').map((c) => [link(`#${c.id}`, c.title)])));
@@ -564,5 +587,5 @@ export function buildPackTree(input: PackInput): { tree: Root; diagnostics: Diag
     const key = `${d.file}:${d.line}:${d.message}`;
     return seen.has(key) ? false : (seen.add(key), true);
   });
-  return { tree: { type: 'root', children: nodes }, diagnostics: unique };
+  return { tree: { type: 'root', children: nodes }, diagnostics: unique, sections, bases, sectionDiagnostics };
 }

@@ -6,11 +6,13 @@
  * an unchanged part's pages, Markdown and HTML from the build cache.
  */
 import type { Root, RootContent } from 'mdast';
+import { madeOf } from './made-section.ts';
 
+/** A made section (made-section.ts) starts a part, as the level-2 heading it stands for did. */
 export function splitParts(tree: Root): RootContent[][] {
   const parts: RootContent[][] = [];
   for (const node of tree.children) {
-    if ((node.type === 'heading' && node.depth === 2) || parts.length === 0) parts.push([]);
+    if ((node.type === 'heading' && node.depth === 2) || madeOf(node) || parts.length === 0) parts.push([]);
     parts[parts.length - 1]!.push(node);
   }
   return parts;

@@ -63,22 +63,27 @@ export const RECORD_FILE = 'record.json';
  * the next month's build slower and larger than the first.
  */
 export function comparisonRecord(summary: RecordSource): SummaryLike {
+  return recordOf(summary, summary.characteristics.map(recordItem));
+}
+
+/** One characteristic of the comparison record: what `compareSummaries` reads of it. */
+export type RecordItem = SummaryLike['characteristics'][number];
+
+/** The comparison record of a summary, from its characteristics' items (`recordItem`), in order. */
+export function recordOf(summary: Pick<RecordSource, 'format' | 'asOf' | 'period'>, characteristics: readonly RecordItem[]): SummaryLike {
+  return { format: summary.format, asOf: summary.asOf, period: { from: summary.period.from, to: summary.period.to }, characteristics: [...characteristics] };
+}
+
+export function recordItem(c: RecordSource['characteristics'][number]): RecordItem {
+  const last = lastLimits(c);
   return {
-    format: summary.format,
-    asOf: summary.asOf,
-    period: { from: summary.period.from, to: summary.period.to },
-    characteristics: summary.characteristics.map((c) => {
-      const last = lastLimits(c);
-      return {
-        id: c.id,
-        name: c.name,
-        status: c.status,
-        points: last ? [{ label: last.label, center: last.center, ucl: last.ucl, lcl: last.lcl }] : [],
-        signals: c.signals.map((s) => ({ rule: s.rule, panel: s.panel, points: [...s.points], flagged: [...s.flagged] })),
-        recommendation: c.recommendation ? { action: c.recommendation.action } : null,
-        ...(c.history ? { history: c.history.map((e) => ({ date: e.date, action: e.action, point: e.point, reason: e.reason, by: e.by })) } : {}),
-      };
-    }),
+    id: c.id,
+    name: c.name,
+    status: c.status,
+    points: last ? [{ label: last.label, center: last.center, ucl: last.ucl, lcl: last.lcl }] : [],
+    signals: c.signals.map((s) => ({ rule: s.rule, panel: s.panel, points: [...s.points], flagged: [...s.flagged] })),
+    recommendation: c.recommendation ? { action: c.recommendation.action } : null,
+    ...(c.history ? { history: c.history.map((e) => ({ date: e.date, action: e.action, point: e.point, reason: e.reason, by: e.by })) } : {}),
   };
 }
 

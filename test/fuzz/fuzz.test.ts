@@ -19,7 +19,7 @@ import { loadWorkspace } from '../../src/workspace/load.ts';
 import { analyse } from '../../src/analyse.ts';
 import type { Diagnostic } from '../../src/diagnostics.ts';
 import { CHART_IDS } from '../../src/model.ts';
-import { buildSummary } from '../../src/summary.ts';
+import { summaryOf } from '../../src/summary.ts';
 import { readCsvTable } from '../../src/workspace/csv-table.ts';
 import { readDataFile } from '../../src/workspace/data-file.ts';
 import { readLedger } from '../../src/workspace/ledger-file.ts';
@@ -178,7 +178,7 @@ describe('the whole analysis on generated workspaces', () => {
         });
         wellFormed(a.diagnostics);
         if (a.status !== 'assessed') expect(a.diagnostics.some((d) => d.severity === 'error')).toBe(true);
-        const summary = buildSummary(review.config, [a], [], review.config.period.to);
+        const summary = summaryOf(review.config, [a], [], review.config.period.to);
         expect(() => JSON.parse(JSON.stringify(summary))).not.toThrow();
         const points = summary.characteristics[0]!.points;
         if (a.status === 'assessed') for (let i = 0; i < points.length; i++) expect(Number.isFinite(points.at(i)!.value), `${c.chart} value`).toBe(true);

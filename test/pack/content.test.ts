@@ -16,6 +16,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import type { Paragraph, Root } from 'mdast';
 import type { Assessed, Assessment } from '../../src/analyse.ts';
 import { EARLIER_SIGNAL_ROWS, buildPackTree } from '../../src/pack/content.ts';
+import { packItems } from '../../src/pack/brief.ts';
 import { toHtml } from '../../src/pack/html.ts';
 import { toMarkdown } from '../../src/pack/markdown.ts';
 import type { Templates } from '../../src/pack/template.ts';
@@ -31,19 +32,20 @@ afterAll(() => rmSync(temp, { recursive: true, force: true }));
 const toolTemplates = readTemplates(path.join(temp, 'none')).templates;
 
 function tree(assessments: Assessment[], templates: Templates = toolTemplates, config: Partial<ReviewConfig> = {}) {
+  const review: ReviewConfig = {
+    title: 'Review',
+    organisation: 'Org',
+    period: { from: '1900-01-01', to: '2999-12-31' },
+    rules: 'western-electric',
+    minPoints: 5,
+    freezeAfter: 20,
+    customers: {},
+    characteristics: assessments.map((a) => a.characteristic),
+    ...config,
+  };
   return buildPackTree({
-    config: {
-      title: 'Review',
-      organisation: 'Org',
-      period: { from: '1900-01-01', to: '2999-12-31' },
-      rules: 'western-electric',
-      minPoints: 5,
-      freezeAfter: 20,
-      customers: {},
-      characteristics: assessments.map((a) => a.characteristic),
-      ...config,
-    },
-    assessments,
+    config: review,
+    characteristics: packItems(assessments, review),
     diagnostics: [],
     asOf: '2020-02-01',
     fingerprint: 'f'.repeat(64),

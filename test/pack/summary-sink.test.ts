@@ -8,7 +8,8 @@ import { deserialize } from 'node:v8';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { planPack } from '../../src/build.ts';
-import { type CacheEntry, type CacheHit, SUMMARY_INDEX, type SideKind, type SummaryIndex, sidePath } from '../../src/pack/build-cache.ts';
+import type { Assessment } from '../../src/analyse.ts';
+import { type CacheHit, ENTRY_INDEX, type IndexedEntry, SUMMARY_INDEX, type SideKind, type SummaryIndex, sidePath } from '../../src/pack/build-cache.ts';
 import { loadWorkspace } from '../../src/workspace/load.ts';
 import { ROOT } from '../helpers/cli.ts';
 
@@ -57,10 +58,13 @@ describe('summary.json through a sink', () => {
     const bytes = Buffer.from(first.files.get('summary.json')!);
     const parsed = JSON.parse(bytes.toString('utf8')) as { characteristics: { id: string }[] };
     const entryFile = /^\.plumbline-cache\/([0-9a-f]{64})\.v8$/;
-    const entries = new Map([...first.cache].flatMap(([p, made]) => {
+    // Each entry file holds the assessment; the index (made after them) the brief and the side files.
+    const assessments = new Map([...first.cache].flatMap(([p, made]) => {
       const m = entryFile.exec(p);
-      return m ? [[m[1]!, deserialize(made()) as CacheEntry] as const] : [];
+      return m ? [[m[1]!, deserialize(made()) as Assessment] as const] : [];
     }));
+    const entries = deserialize(first.cache.get(ENTRY_INDEX)!()) as Map<string, IndexedEntry>;
+    expect([...entries.keys()].sort()).toEqual([...assessments.keys()].sort());
     expect(entries.size).toBe(19);
     const side = (key: string, kind: SideKind) => first.cache.get(sidePath(key, kind))!();
     // The index names each entry's part of summary.json: one item of its characteristics, as that file has it.
@@ -93,7 +97,7 @@ describe('summary.json through a sink', () => {
         if (!entry) return undefined;
         const sides = entry.sides as Record<SideKind, { bytes: number; sha256?: string } | undefined>;
         const hit = (kind: SideKind) => (sides[kind] ? { path: sidePath(key, kind), file: sides[kind], read: () => side(key, kind) } : undefined);
-        return { entry, bytes: () => new Uint8Array(), side: hit } as CacheHit;
+        return { brief: entry.brief, sides: entry.sides, assessment: () => assessments.get(key), path: 'not linked', entryBytes: entry.bytes, side: hit } as CacheHit;
       },
     });
     expect(again.cacheUse).toEqual({ reused: 19, redone: 0 });
