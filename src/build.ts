@@ -12,7 +12,7 @@ import { type PackItem, type PackTree, buildPackTree, madeHeadings } from './pac
 import type { Brief } from './pack/brief.ts';
 import { type MadeSection, madeOf, nodesDigest } from './pack/made-section.ts';
 import { MarkedJson, WrittenJson, jsonBytes, jsonChunks } from './pack/json-bytes.ts';
-import { type FileSink, type SunkFile, type UnfilledFile, fillFile } from './pack/write.ts';
+import { type FileSink, type FileStamp, type SunkFile, type UnfilledFile, fillFile, stampOf } from './pack/write.ts';
 import { type PagePart, type PagesWorker, type PartText, type SvgJob, type TextPagesInput, startPagesWorker, writeTextPagesHere } from './pack/text-pages.ts';
 import { type LaidOutPart, type Paper, toPdf } from './pack/pdf.ts';
 import { loadFonts } from './render/fonts.ts';
@@ -46,7 +46,7 @@ export interface PlannedPack {
    * written: a plant's cache is hundreds of megabytes, not worth holding at
    * once); not part of the pack, not in the manifest.
    */
-  readonly cache: ReadonlyMap<string, () => Uint8Array>;
+  readonly cache: ReadonlyMap<string, (into: string) => Uint8Array>;
   /** Cache paths whose entry was read unchanged from the earlier build's cache: the writer may link those files rather than write them again. */
   readonly cacheKept: ReadonlySet<string>;
   /** Characteristics taken from the cache, and those analysed (and drawn) afresh. */
@@ -122,6 +122,8 @@ export interface CopiedFile {
   readonly from: string;
   readonly bytes: number;
   readonly sha256: string;
+  /** The stamp the pack's file of the same name was written with: linked from there while it has it. */
+  readonly unchanged?: FileStamp | undefined;
 }
 
 /** Characteristics with more points than this are not kept in the build cache. */
@@ -247,8 +249,8 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     const svg = hit?.side('svg');
     const png = hit?.side('png');
     if (svg && (png || !options.png)) {
-      copies.set(chartFile(id), { from: svg.path, ...svg.file });
-      if (options.png && png) copies.set(pngFile(id), { from: png.path, ...png.file });
+      copies.set(chartFile(id), { from: svg.path, ...svg.file, unchanged: hit!.packed.svg });
+      if (options.png && png) copies.set(pngFile(id), { from: png.path, ...png.file, unchanged: hit!.packed.png });
     } else {
       jobs.push({ id, scene: sceneOf(id)!, png: options.png, ...filesFor(i, id, r.brief) });
     }
@@ -471,7 +473,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   files.set(RECORD_FILE, recordBytes);
   const outputs = [...entries(files), ...[...placed, ...copies].map(([p, f]) => ({ path: p, bytes: f.bytes, sha256: f.sha256 }))].sort((a, b) => comparePaths(a.path, b.path));
   files.set('manifest.json', json({ tool: TOOL, asOf, fingerprint, inputs, ledger: { ...integrity.chain, rewrites: integrity.rewrites }, outputs }));
-  const cache = new Map<string, () => Uint8Array>();
+  const cache = new Map<string, (into: string) => Uint8Array>();
   const cacheKept = new Set<string>();
   if (options.cache) {
     const shaOf = new Map(outputs.map((o) => [o.path, o.sha256]));
@@ -524,7 +526,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
         keep('png');
       }
       const file = entryPath(key);
-      const entry = { brief: b, sides, bytes: hit?.entryBytes ?? 0 };
+      const entry: (typeof indexed extends Map<string, infer E> ? E : never) = { brief: b, sides, bytes: hit?.entryBytes ?? 0, packed: {} };
       indexed.set(key, entry);
       // Where the entry cannot be linked, or was not read back, it is written: its size is then known.
       const write = () => {
@@ -535,13 +537,21 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
       cache.set(file, write);
       if (hit && !spoiled.has(i)) cacheKept.add(file);
     });
-    // After the entries, whose sizes it records (the writer makes the cache's files in this order).
-    cache.set(ENTRY_INDEX, () => encodeStored(indexed));
+    // After the entries, whose sizes it records, and the pack's charts, whose stamps it records (the
+    // writer makes the cache's files in this order, after the pack's).
+    cache.set(ENTRY_INDEX, (into) => {
+      for (const entry of indexed.values()) {
+        const svg = entry.sides.svg ? stampOf(path.join(into, chartFile(entry.brief.id))) : undefined;
+        const png = entry.sides.png ? stampOf(path.join(into, pngFile(entry.brief.id))) : undefined;
+        entry.packed = { ...(svg ? { svg } : {}), ...(png ? { png } : {}) };
+      }
+      return encodeStored(indexed);
+    });
     cache.set(SECTION_INDEX, () => encodeStored(sectionsMade));
     // Where each cached characteristic's part of summary.json is, for the next build.
     const pieces = new Map(keys.flatMap((key, i) => (summaryRanges[i] && cache.has(entryPath(key)) ? [[key, summaryRanges[i]] as const] : [])));
     const summary = summaryMade instanceof Uint8Array ? { bytes: summaryMade.length, sha1: createHash('sha1').update(summaryMade).digest('hex') } : summaryMade;
-    cache.set(SUMMARY_INDEX, () => encodeStored({ bytes: summary.bytes, sha1: summary.sha1, pieces } satisfies SummaryIndex));
+    cache.set(SUMMARY_INDEX, (into) => encodeStored({ bytes: summary.bytes, sha1: summary.sha1, pieces, stamp: stampOf(path.join(into, 'summary.json')) } satisfies SummaryIndex));
     // Parts read unchanged are linked; new ones are written, and so is one whose texts were written
     // here for the first time (a tree with footnotes makes index.html whole, and leaves them out).
     const texts = new Map(fresh);

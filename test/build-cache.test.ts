@@ -67,6 +67,7 @@ describe('the build cache', () => {
       expect(indexHtml).toContain(utf8.decode(text.html));
     }
     const partInodes = new Map(partsBefore.map((k) => [k, statSync(entryFile(k)).ino]));
+    const chartInodes = new Map(readdirSync(path.join(out, 'charts')).map((f) => [f, statSync(path.join(out, 'charts', f)).ino]));
     const bytesBefore = hashTree(path.join(out, CACHE));
     const warm = json(cli('build', ws, '--out', out, '--previous', before, '--json'));
     expect(warm.cache).toEqual({ reused: 18, redone: 1 });
@@ -94,6 +95,11 @@ describe('the build cache', () => {
     expect(laidOut.length).toBeLessThanOrEqual(4);
     expect(partsAfter).toHaveLength(partsBefore.length);
     for (const k of partsAfter.filter((k) => partsBefore.includes(k))) expect(statSync(entryFile(k)).ino).toBe(partInodes.get(k));
+    // The pack's 18 unchanged charts were linked from the old pack (which then went: one link each),
+    // and only the changed one is a new file.
+    const charts = readdirSync(path.join(out, 'charts'));
+    expect(charts.filter((f) => statSync(path.join(out, 'charts', f)).ino !== chartInodes.get(f))).toEqual(['fill-volume.svg']);
+    for (const f of charts) expect(statSync(path.join(out, 'charts', f)).nlink).toBe(1);
 
     const cold = path.join(temp, 'cold');
     const c = json(cli('build', ws, '--out', cold, '--previous', before, '--no-cache', '--json'));
@@ -119,6 +125,12 @@ describe('the build cache', () => {
     const summary = readFileSync(summaryFile, 'latin1');
     expect(summary.split('"keep"').length).toBeGreaterThan(3);
     writeFileSync(summaryFile, summary.replaceAll('"keep"', '"kept"'), 'latin1');
+    // A chart of the pack edited in place (same size) is not linked into the new pack, but copied
+    // from the cache again.
+    const chart = path.join(out, 'charts', readdirSync(path.join(out, 'charts'))[0]!);
+    const drawn = readFileSync(chart, 'latin1');
+    writeFileSync(chart, drawn.replace('<svg', '<SVG'), 'latin1');
+    expect(readFileSync(chart, 'latin1')).not.toBe(drawn);
     const r = json(cli('build', ws, '--out', out, '--previous', before, '--json'));
     expect(r.cache).toEqual({ reused: 16, redone: 3 });
     expect(packOnly(out)).toEqual(expected);
@@ -291,5 +303,76 @@ describe('what the cache keeps', () => {
     expect(entries.length).toBeGreaterThan(0);
     expect(entries.length).toBeLessThan(19);
     expect(plan.cacheUse).toEqual({ reused: 0, redone: 19 });
+  }, 120_000);
+});
+
+describe('made sections', () => {
+  // The expected packs are cold builds of the same inputs, in the same process, without a cache.
+  const ws = path.join(temp, 'made-ws');
+  cpSync(path.join(ROOT, 'data/demo'), ws, { recursive: true });
+  const out = path.join(temp, 'made-out');
+
+  async function plans(options: { readonly templateChange?: string } = {}) {
+    const { planPack } = await import('../src/build.ts');
+    const { loadWorkspace } = await import('../src/workspace/load.ts');
+    const { openCache, openMadeSections, openPartCache, openSummaryPieces } = await import('../src/pack/build-cache.ts');
+    const loaded = loadWorkspace(ws);
+    if (!loaded.ok) throw new Error('the workspace does not load');
+    const w = loaded.workspace;
+    const base = { paper: 'a4', png: false, jobs: 1 } as const;
+    const cold = await planPack(w, w.config.period.to, base);
+    const cache = openCache(out);
+    const read: string[] = [];
+    const warm = await planPack(w, w.config.period.to, {
+      ...base,
+      // Counts the assessments read back from the cache.
+      cache: (key) => {
+        const hit = cache(key);
+        return hit && { ...hit, assessment: () => (read.push(hit.brief.id), hit.assessment()) };
+      },
+      partCache: openPartCache(out),
+      summaryPieces: openSummaryPieces(out),
+      madeSections: openMadeSections(out),
+    });
+    for (const f of ['index.md', 'index.html', 'pack.pdf', 'summary.json', 'record.json', 'manifest.json']) {
+      expect(Buffer.from(warm.files.get(f)!).equals(Buffer.from(cold.files.get(f)!)), f).toBe(true);
+    }
+    return { warm, read };
+  }
+
+  it('a rebuild reads back no unchanged characteristic\'s assessment, and writes what a cold build writes', async () => {
+    expect(json(cli('build', ws, '--out', out, '--json')).cache).toEqual({ reused: 0, redone: 19 });
+    const file = path.join(ws, 'data/fill-volume.csv');
+    writeFileSync(file, readFileSync(file, 'utf8').replace(/,(\d+(\.\d+)?)\n$/, (_, v: string) => `,${(Number(v) + 0.4).toFixed(1)}\n`));
+    const { warm, read } = await plans();
+    expect(warm.cacheUse).toEqual({ reused: 18, redone: 1 });
+    expect(read).toEqual([]);
+  }, 120_000);
+
+  it('builds a section again where a heading elsewhere now takes its id first', async () => {
+    // The cache as the changed data (above) left it.
+    expect(json(cli('build', ws, '--out', out, '--json')).cache).toEqual({ reused: 18, redone: 1 });
+    // A heading before the characteristics whose id is fill-volume's section's ("c-fill-volume"):
+    // that section's heading becomes "c-fill-volume-2", so the section made before no longer fits.
+    const pack = readFileSync(path.join(ROOT, 'templates/pack.md'), 'utf8');
+    expect(pack).toContain('{{characteristics}}');
+    mkdirSync(path.join(ws, 'templates'), { recursive: true });
+    writeFileSync(path.join(ws, 'templates/pack.md'), pack.replace('{{characteristics}}', '## C fill volume\n\nA heading of our own.\n\n{{characteristics}}'));
+    const { warm, read } = await plans();
+    expect(warm.cacheUse).toEqual({ reused: 19, redone: 0 });
+    expect(read).toContain('fill-volume');
+    expect(new TextDecoder().decode(warm.files.get('index.html'))).toContain('id="c-fill-volume-2"');
+    rmSync(path.join(ws, 'templates/pack.md'));
+  }, 120_000);
+
+  it('builds the last section again where the pack\'s template now follows the characteristics with more of the same part', async () => {
+    expect(json(cli('build', ws, '--out', out, '--json')).cache).toEqual({ reused: 19, redone: 0 });
+    const pack = readFileSync(path.join(ROOT, 'templates/pack.md'), 'utf8');
+    mkdirSync(path.join(ws, 'templates'), { recursive: true });
+    // A paragraph right after the characteristics belongs to the last one's part (no heading between).
+    writeFileSync(path.join(ws, 'templates/pack.md'), pack.replace('{{characteristics}}', '{{characteristics}}\n\nA closing paragraph of our own.'));
+    const { read } = await plans();
+    expect(read).toHaveLength(1);
+    rmSync(path.join(ws, 'templates/pack.md'));
   }, 120_000);
 });

@@ -4,7 +4,7 @@
  * reader never sees half a pack and a failed build leaves the previous one.
  */
 import { createHash } from 'node:crypto';
-import { closeSync, constants, copyFileSync, existsSync, linkSync, mkdirSync, openSync, readSync, readdirSync, renameSync, rmSync, statSync, writeFileSync, writeSync } from 'node:fs';
+import { closeSync, constants, copyFileSync, existsSync, linkSync, lstatSync, mkdirSync, openSync, readSync, readdirSync, renameSync, rmSync, statSync, writeFileSync, writeSync } from 'node:fs';
 import path from 'node:path';
 
 export class OutputRefused extends Error {}
@@ -192,6 +192,32 @@ function writeExactly(fd: number, bytes: Uint8Array, at: number): void {
 }
 
 /**
+ * What a file's metadata says of it: its inode, size and time of last
+ * change of its bytes. A build records the stamp of a file it wrote, and a
+ * later build takes the file as unchanged while its stamp is the same (an
+ * edit changes the modification time; renaming or linking the file keeps
+ * all three): so it links a chart, or trusts summary.json, without reading
+ * it (git trusts its working tree the same way).
+ */
+export interface FileStamp {
+  readonly ino: bigint;
+  readonly size: bigint;
+  readonly mtimeNs: bigint;
+}
+
+export function stampOf(file: string): FileStamp | undefined {
+  try {
+    const s = lstatSync(file, { bigint: true });
+    return s.isFile() ? { ino: s.ino, size: s.size, mtimeNs: s.mtimeNs } : undefined;
+  } catch {
+    return undefined;
+  }
+}
+
+export const sameStamp = (a: FileStamp | undefined, b: unknown): boolean =>
+  a !== undefined && typeof b === 'object' && b !== null && (b as FileStamp).ino === a.ino && (b as FileStamp).size === a.size && (b as FileStamp).mtimeNs === a.mtimeNs;
+
+/**
  * Makes the folder of each file it is given, once per folder: a pack's
  * thousands of files share a few folders.
  */
@@ -250,20 +276,23 @@ export function fillFile(job: FillJob): SunkFile {
  * Writes the planned files into the build's folder, which then replaces
  * --out. Files already made there (summary.json, through a FileSink) stay;
  * `copies` are output files copied from a file of the current --out (charts
- * the build cache kept).
+ * the build cache kept), or linked from the file of the same name there
+ * where it still has the stamp it was written with (`unchanged`).
  * `extra`: files that go into the folder but are not the pack (the build
  * cache). Those named in `kept` hold the same bytes as the file of that name
  * in the current --out, and are hard-linked from it where the file system
  * allows (a plant's cache is hundreds of megabytes, nearly all unchanged
- * after one data file changes); anywhere else they are written. On any
- * failure the folder is removed and --out left as it was.
+ * after one data file changes); anywhere else they are written, each made
+ * when it is written, after the pack's files, and given the folder they
+ * are written into. On any failure the folder is removed and --out left as
+ * it was.
  */
 export function writePack(
   folder: PackFolder,
   files: ReadonlyMap<string, Uint8Array>,
-  extra: ReadonlyMap<string, () => Uint8Array> = new Map(),
+  extra: ReadonlyMap<string, (into: string) => Uint8Array> = new Map(),
   kept: ReadonlySet<string> = new Set(),
-  copies: ReadonlyMap<string, { readonly from: string }> = new Map(),
+  copies: ReadonlyMap<string, { readonly from: string; readonly unchanged?: unknown }> = new Map(),
 ): void {
   const { out, temp, old } = folder;
   try {
@@ -285,15 +314,18 @@ export function writePack(
       }
     };
     for (const [name, bytes] of files) put(name, bytes);
-    // Copied, not linked: a pack's file and the cache's must not be one file that an edit to either
-    // changes. Where the file system can clone (Btrfs, XFS), the copy is a clone that shares the
-    // blocks until either is written; elsewhere (ext4) it is a plain copy.
-    for (const [name, { from }] of copies) {
+    // Linked from the pack's own file where it is as it was written (the old pack goes, so the new
+    // one then has the file alone: a plant's 1,000 charts took 0.26–0.36 s to copy). Else copied
+    // from the cache, not linked: a pack's file and the cache's must not be one file that an edit
+    // to either changes. Where the file system can clone (Btrfs, XFS), the copy is a clone that
+    // shares the blocks until either is written; elsewhere (ext4) it is a plain copy.
+    for (const [name, { from, unchanged }] of copies) {
+      if (unchanged !== undefined && sameStamp(stampOf(path.join(out, name)), unchanged) && linked(name)) continue;
       const target = path.join(temp, name);
       folderFor(target);
       copyFileSync(path.join(out, from), target, constants.COPYFILE_FICLONE);
     }
-    for (const [name, make] of extra) if (!(kept.has(name) && linked(name))) put(name, make());
+    for (const [name, make] of extra) if (!(kept.has(name) && linked(name))) put(name, make(temp));
     const hadOld = existsSync(out);
     if (hadOld) renameSync(out, old);
     renameSync(temp, out);

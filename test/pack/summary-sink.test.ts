@@ -13,6 +13,9 @@ import { type CacheHit, ENTRY_INDEX, type IndexedEntry, SUMMARY_INDEX, type Side
 import { loadWorkspace } from '../../src/workspace/load.ts';
 import { ROOT } from '../helpers/cli.ts';
 
+/** The folder a pack is written into: none here (the cache's files are made in memory). */
+const NOWHERE = path.join(ROOT, 'no such folder');
+
 const byId = (a: { id: string }, b: { id: string }) => (a.id < b.id ? -1 : a.id > b.id ? 1 : 0);
 
 describe('summary.json through a sink', () => {
@@ -61,14 +64,14 @@ describe('summary.json through a sink', () => {
     // Each entry file holds the assessment; the index (made after them) the brief and the side files.
     const assessments = new Map([...first.cache].flatMap(([p, made]) => {
       const m = entryFile.exec(p);
-      return m ? [[m[1]!, deserialize(made()) as Assessment] as const] : [];
+      return m ? [[m[1]!, deserialize(made(NOWHERE)) as Assessment] as const] : [];
     }));
-    const entries = deserialize(first.cache.get(ENTRY_INDEX)!()) as Map<string, IndexedEntry>;
+    const entries = deserialize(first.cache.get(ENTRY_INDEX)!(NOWHERE)) as Map<string, IndexedEntry>;
     expect([...entries.keys()].sort()).toEqual([...assessments.keys()].sort());
     expect(entries.size).toBe(19);
-    const side = (key: string, kind: SideKind) => first.cache.get(sidePath(key, kind))!();
+    const side = (key: string, kind: SideKind) => first.cache.get(sidePath(key, kind))!(NOWHERE);
     // The index names each entry's part of summary.json: one item of its characteristics, as that file has it.
-    const index = deserialize(first.cache.get(SUMMARY_INDEX)!()) as SummaryIndex;
+    const index = deserialize(first.cache.get(SUMMARY_INDEX)!(NOWHERE)) as SummaryIndex;
     expect(index.bytes).toBe(bytes.length);
     expect(index.sha1).toBe(createHash('sha1').update(bytes).digest('hex'));
     expect([...index.pieces.keys()].sort()).toEqual([...entries.keys()].sort());
@@ -109,7 +112,7 @@ describe('summary.json through a sink', () => {
     for (const [p, b] of charts) {
       const copy = again.copies.get(p)!;
       expect({ bytes: copy.bytes, sha256: copy.sha256 }).toEqual({ bytes: b.length, sha256: createHash('sha256').update(b).digest('hex') });
-      expect(Buffer.from(first.cache.get(copy.from)!()).equals(Buffer.from(b))).toBe(true);
+      expect(Buffer.from(first.cache.get(copy.from)!(NOWHERE)).equals(Buffer.from(b))).toBe(true);
     }
     expect(Buffer.from(again.files.get('manifest.json')!).equals(Buffer.from(first.files.get('manifest.json')!))).toBe(true);
   }, 60_000);
