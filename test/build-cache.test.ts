@@ -376,3 +376,32 @@ describe('made sections', () => {
     rmSync(path.join(ws, 'templates/pack.md'));
   }, 120_000);
 });
+
+describe('review.yaml through the cache', () => {
+  const ws = path.join(temp, 'review-ws');
+  cpSync(path.join(ROOT, 'data/demo'), ws, { recursive: true });
+  const out = path.join(temp, 'review-out');
+  const memo = path.join(out, CACHE, 'review.v8');
+
+  it('keeps the settings read from review.yaml, and reads the file again once its text changes', () => {
+    expect(cli('build', ws, '--out', out, '-q').code).toBe(0);
+    const inode = statSync(memo).ino;
+    // The same text: the settings kept are used, and the file is linked into the new cache as it was.
+    expect(cli('build', ws, '--out', out, '-q').code).toBe(0);
+    expect(statSync(memo).ino).toBe(inode);
+    // Another title: review.yaml is read again, and the pack has the new title.
+    const file = path.join(ws, 'review.yaml');
+    const text = readFileSync(file, 'utf8');
+    expect(text).toMatch(/^title: .+$/m);
+    writeFileSync(file, text.replace(/^title: .+$/m, 'title: A title of our own'));
+    expect(cli('build', ws, '--out', out, '-q').code).toBe(0);
+    expect(statSync(memo).ino).not.toBe(inode);
+    expect(readFileSync(path.join(out, 'index.md'), 'utf8')).toMatch(/^# A title of our own$/m);
+    // A review.yaml with an error is reported as without the cache, and nothing is written.
+    writeFileSync(file, text.replace(/^title: .+$/m, 'title: [unclosed'));
+    const bad = cli('build', ws, '--out', out, '-q');
+    expect(bad.code).toBe(2);
+    expect(bad.err).toContain('review.yaml');
+    expect(readFileSync(path.join(out, 'index.md'), 'utf8')).toMatch(/^# A title of our own$/m);
+  }, 120_000);
+});

@@ -133,7 +133,10 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
   const asOf = typeof values.date === 'string' ? values.date : undefined;
   // A build's heap stays near what is live: a million-point series peaked at 1.5 GB without this (collect.ts).
   moderateHeapGrowth();
-  const loaded = loadWorkspace(dir);
+  // review.yaml's settings as the last build into --out read them, where its text is the same.
+  const { REVIEW_MEMO, openCache, openMadeSections, openPartCache, openSummaryPieces, reviewMemo } = await import('../pack/build-cache.ts');
+  const memo = values['no-cache'] === true ? undefined : reviewMemo(outDir);
+  const loaded = loadWorkspace(dir, memo ? { readReview: memo.read } : {});
   if (!loaded.ok) {
     if (json) io.out(resultJson('build', dir, EXIT.usage, loaded.diagnostics, []));
     else {
@@ -164,7 +167,6 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
   const progress = quiet || !io.progress ? undefined : io.progress.bind(io);
   // The renderers are loaded only when a pack is built.
   const { planPack } = await import('../build.ts');
-  const { openCache, openMadeSections, openPartCache, openSummaryPieces } = await import('../pack/build-cache.ts');
   // The pack's temporary folder, from here: summary.json is written into it as the analysis makes it.
   const folder = openPackFolder(outDir);
   let plan: Awaited<ReturnType<typeof planPack>>;
@@ -186,7 +188,9 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
     throw e;
   }
   progress?.('');
-  writePack(folder, plan.files, plan.cache, plan.cacheKept, plan.copies);
+  const kept = memo?.keep();
+  const cache = kept ? new Map([...plan.cache, [REVIEW_MEMO, () => kept.bytes]]) : plan.cache;
+  writePack(folder, plan.files, cache, kept?.unchanged ? new Set([...plan.cacheKept, REVIEW_MEMO]) : plan.cacheKept, plan.copies);
   if (json) return io.out(resultJson('build', dir, plan.exitCode, plan.diagnostics, plan.briefs, { out: outDir, files: [...plan.files.keys(), ...plan.placed.keys(), ...plan.copies.keys()].sort(), comparedWith: previous?.asOf ?? null, cache: values['no-cache'] === true ? null : plan.cacheUse })), plan.exitCode;
   printDiagnostics(io, plan.diagnostics, quiet);
   const counts = new Map<string, number>();

@@ -105,6 +105,8 @@ function unresolved(c: ConfiguredCharacteristic): Characteristic {
 export interface LoadOptions {
   /** Read the ledger from this text instead of ledger.csv: how `ledger add` checks a row before appending it. */
   readonly ledgerText?: string;
+  /** Reads review.yaml's text (default `readReview`): a build takes a plant's settings from its cache (see build-cache.ts, `reviewMemo`). */
+  readonly readReview?: (text: string) => ReturnType<typeof readReview>;
 }
 
 export function loadWorkspace(dir: string, options: LoadOptions = {}): LoadResult {
@@ -114,7 +116,7 @@ export function loadWorkspace(dir: string, options: LoadOptions = {}): LoadResul
   if (review.text === undefined) {
     return { ok: false, diagnostics: [error('workspace/no-review', { file: REVIEW_FILE }, `${REVIEW_FILE} ${review.problem} in ${root}; a workspace needs one.`)] };
   }
-  const parsed = readReview(review.text);
+  const parsed = (options.readReview ?? readReview)(review.text);
   if (!parsed.config) return { ok: false, diagnostics: parsed.diagnostics };
   const config = parsed.config;
   const inputs = new Map<string, Uint8Array>([[REVIEW_FILE, review.bytes!]]);
