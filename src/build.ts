@@ -13,7 +13,7 @@ import type { Brief } from './pack/brief.ts';
 import { type MadeSection, madeOf, nodesDigest } from './pack/made-section.ts';
 import { MarkedJson, WrittenJson, jsonBytes, jsonChunks } from './pack/json-bytes.ts';
 import { type FileSink, type FileStamp, type SunkFile, type UnfilledFile, fillFile, stampOf } from './pack/write.ts';
-import { type PagePart, type PagesWorker, type PartText, type SvgJob, type TextPagesInput, startPagesWorker, writeTextPagesHere } from './pack/text-pages.ts';
+import { type KnownText, type PagePart, type PagesWorker, type SvgJob, type TextPagesInput, startPagesWorker, writeTextPagesHere } from './pack/text-pages.ts';
 import { type LaidOutPart, type Paper, toPdf } from './pack/pdf.ts';
 import { loadFonts } from './render/fonts.ts';
 import { svgToPng } from './render/png.ts';
@@ -22,7 +22,7 @@ import { chartSpec } from './render/scene/spec.ts';
 import { createTextMetrics } from './render/scene/text-metrics.ts';
 import type { Scene } from './render/scene/types.ts';
 import { defaultJobs, drawCharts } from './render/pool/chart-pool.ts';
-import { type CacheHit, type CachedPart, ENTRY_INDEX, type IndexedEntry, SECTION_INDEX, SUMMARY_INDEX, type Side, type SideKind, type Sides, type Stored, type SummaryIndex, type SummaryPieces, cacheKey, encodeEntry, encodeStored, entryPath, partKey, partPath, sectionKey, sidePath } from './pack/build-cache.ts';
+import { type CacheHit, type CachedPart, ENTRY_INDEX, type PageRecord, TEXT_INDEX, type TextIndex, type IndexedEntry, SECTION_INDEX, SUMMARY_INDEX, type Side, type SideKind, type Sides, type Stored, type SummaryIndex, type SummaryPieces, cacheKey, encodeEntry, encodeStored, entryPath, partKey, partPath, sectionKey, sidePath } from './pack/build-cache.ts';
 import { chartIdOf, chartIdsIn, hasFootnotes } from './pack/mdast.ts';
 import type { RootContent } from 'mdast';
 import { splitParts } from './pack/parts.ts';
@@ -97,6 +97,8 @@ export interface PackOptions {
   readonly summaryPieces?: SummaryPieces;
   /** The characteristics' sections as an earlier build made them, by section key (read only when `cache` is given). */
   readonly madeSections?: (key: string) => MadeSection | undefined;
+  /** Where an earlier build's index.md and index.html hold each part's texts, by part key (read only when `cache` is given). */
+  readonly partTexts?: (key: string) => KnownText | undefined;
 }
 
 export const DEFAULT_OPTIONS: PackOptions = { paper: 'a4', png: false };
@@ -325,14 +327,15 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   const chartKeysOf = (ids: readonly string[]) => ids.map((id) => keyOfChart.get(id) ?? `unknown ${id}`);
   const sectionKeys = options.cache ? keys.map((k) => sectionKey(k, ws.templates.characteristic)) : [];
   /** The cached part of each characteristic whose made section is used, by index. */
-  const madeParts = new Map<number, { key: string; hit: NonNullable<ReturnType<Stored<CachedPart>>> }>();
+  const madeParts = new Map<number, { key: string; hit: NonNullable<ReturnType<Stored<CachedPart>>>; text: KnownText }>();
   let made: (MadeSection | undefined)[] = reviewed.map((_, i) => {
     const m = options.cache ? options.madeSections?.(sectionKeys[i]!) : undefined;
     if (!m) return undefined;
     const key = partKey(m.digest, chartKeysOf(m.charts), options.paper);
     const hit = options.partCache?.(key);
-    if (!hit || hit.value.text === null) return undefined;
-    madeParts.set(i, { key, hit });
+    const text = hit && options.partTexts?.(key);
+    if (!text) return undefined;
+    madeParts.set(i, { key, hit, text });
     return m;
   });
   let pack: PackTree;
@@ -391,13 +394,13 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
       }
     });
   }
-  const partHits = partKeys.map((key, p) => {
-    const i = madeOf(parts[p]![0]!) ? sectionAt.get(parts[p]![0]!) : undefined;
-    return i !== undefined ? madeParts.get(i)!.hit : options.partCache?.(key);
-  });
+  const madeAt = (p: number) => (madeOf(parts[p]![0]!) ? madeParts.get(sectionAt.get(parts[p]![0]!)!) : undefined);
+  const partHits = partKeys.map((key, p) => madeAt(p)?.hit ?? options.partCache?.(key));
+  const partTexts = partKeys.map((key, p) => madeAt(p)?.text ?? options.partTexts?.(key));
   // Markdown and HTML on the other thread, while this one lays out the PDF. With the cache, a tree
-  // without footnotes goes in parts, and the parts an earlier build wrote go as their texts: the
-  // worker is sent only the nodes and scenes of the others (a whole plant's were 0.6 s to send).
+  // without footnotes goes in parts, and the parts an earlier build wrote go as where that build's
+  // files hold their texts: the worker is sent only the nodes and scenes of the others (a whole
+  // plant's were 0.6 s to send), and copies the rest from there.
   // The scenes the pages draw, less those the worker was sent with the charts it draws.
   const withJobs = new Set(svgsOnPagesWorker ? jobs.map((j) => j.id) : []);
   const scenesOf = (ids: Iterable<string>) =>
@@ -411,7 +414,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     const drawnHere = new Set<string>();
     pagesTree = {
       parts: parts.map((nodes, i): PagePart => {
-        const known = partHits[i]?.value.text;
+        const known = partTexts[i];
         if (known) return { known };
         chartIdsIn(nodes, drawnHere);
         return { nodes };
@@ -422,7 +425,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     pagesTree = { whole: pack.tree };
     pageScenes = scenesOf(chartIdsIn(pack.tree.children));
   }
-  const pagesInput: TextPagesInput = { tree: pagesTree, title: ws.config.title, scenes: pageScenes };
+  const pagesInput: TextPagesInput = { tree: pagesTree, title: ws.config.title, scenes: pageScenes, ...(options.chartsInto !== undefined ? { into: options.chartsInto } : {}) };
   const textPages = pagesWorker ? pagesWorker.run(pagesInput) : writeTextPagesHere(pagesInput);
   lap(pagesWorker ? 'markdown and html sent' : 'markdown and html');
   options.progress?.('pages', 1, 2);
@@ -440,9 +443,13 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   });
   files.set('pack.pdf', pdf.bytes);
   lap('pdf');
-  const { md, html, charts: drawnWithPages, fresh } = await textPages;
-  files.set('index.md', md);
-  files.set('index.html', html);
+  const { md, html, charts: drawnWithPages, placed: textsPlaced } = await textPages;
+  /** index.md and index.html as the worker wrote them into the pack's folder (`into`), with their size and SHA-256. */
+  const pages = new Map<string, { readonly bytes: number; readonly sha256: string }>();
+  for (const [name, page] of [['index.md', md], ['index.html', html]] as const) {
+    if (page instanceof Uint8Array) files.set(name, page);
+    else pages.set(name, page);
+  }
   if (pagesWorker) lap(svgsOnPagesWorker ? 'markdown, html and svgs (waiting for the worker)' : 'markdown and html (waiting for the worker)');
   if (svgsOnPagesWorker) options.progress?.('charts', total, total);
   options.progress?.('pages', 2, 2);
@@ -466,7 +473,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     files.set(chartFile(id), d.svg);
     if (options.png && d.png) files.set(pngFile(id), d.png);
   }
-  const placed = new Map<string, { readonly bytes: number; readonly sha256: string }>([...placedCharts].map(([id, f]) => [chartFile(id), f]));
+  const placed = new Map<string, { readonly bytes: number; readonly sha256: string }>([...pages, ...[...placedCharts].map(([id, f]) => [chartFile(id), f] as const)]);
   const summaryMade = await summaryDone;
   if (summaryMade instanceof Uint8Array) files.set('summary.json', summaryMade);
   else placed.set('summary.json', { bytes: summaryMade.bytes, sha256: summaryMade.sha256 });
@@ -477,6 +484,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   const cacheKept = new Set<string>();
   if (options.cache) {
     const shaOf = new Map(outputs.map((o) => [o.path, o.sha256]));
+    const listed = new Map(outputs.map((o) => [o.path, o]));
     /** The index of the entries, each with its entry file's size: known once the entry is written (below). */
     const indexed = new Map<string, { -readonly [K in keyof IndexedEntry]: IndexedEntry[K] }>();
     reviewed.forEach((r, i) => {
@@ -552,18 +560,20 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     const pieces = new Map(keys.flatMap((key, i) => (summaryRanges[i] && cache.has(entryPath(key)) ? [[key, summaryRanges[i]] as const] : [])));
     const summary = summaryMade instanceof Uint8Array ? { bytes: summaryMade.length, sha1: createHash('sha1').update(summaryMade).digest('hex') } : summaryMade;
     cache.set(SUMMARY_INDEX, (into) => encodeStored({ bytes: summary.bytes, sha1: summary.sha1, pieces, stamp: stampOf(path.join(into, 'summary.json')) } satisfies SummaryIndex));
-    // Parts read unchanged are linked; new ones are written, and so is one whose texts were written
-    // here for the first time (a tree with footnotes makes index.html whole, and leaves them out).
-    const texts = new Map(fresh);
+    // Parts read unchanged are linked; new ones are written.
     partKeys.forEach((key, i) => {
       const file = partPath(key);
       const hit = partHits[i];
-      const text = hit?.value.text ?? texts.get(i) ?? null;
-      if (hit && hit.value.text === text) {
+      if (hit) {
         cache.set(file, hit.bytes);
         cacheKept.add(file);
-      } else cache.set(file, () => encodeStored({ pdf: pdf.parts[i]!, text } satisfies CachedPart));
+      } else cache.set(file, () => encodeStored({ pdf: pdf.parts[i]! } satisfies CachedPart));
     });
+    // Where each part's texts went in index.md and index.html (none for a tree with footnotes,
+    // written whole), with the files as written: after the pack's files, whose stamps it records.
+    const record = (name: string, into: string): PageRecord => ({ bytes: listed.get(name)!.bytes, sha256: listed.get(name)!.sha256, stamp: stampOf(path.join(into, name)) });
+    const textAt = new Map(textsPlaced.map((at, i) => [partKeys[i]!, at] as const));
+    cache.set(TEXT_INDEX, (into) => encodeStored({ md: record('index.md', into), html: record('index.html', into), parts: textAt } satisfies TextIndex));
   }
   lap('manifest and cache');
   const reused = hits.filter((h) => h !== undefined).length;

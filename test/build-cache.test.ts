@@ -54,18 +54,19 @@ describe('the build cache', () => {
     // pack.pdf's parts: the cover, contents, decisions, overview, a section per characteristic, cautions and method.
     const partsBefore = partKeys(out);
     expect(partsBefore.length).toBeGreaterThanOrEqual(19 + 4);
-    // Each with its index.md and index.html texts, which are the pages' own: joined, they are in index.md.
-    const partValue = (dir: string, k: string) => deserialize(readFileSync(path.join(dir, CACHE, k))) as { text: { md: Uint8Array; html: Uint8Array } | null };
-    const indexMd = readFileSync(path.join(out, 'index.md'), 'utf8');
-    const indexHtml = readFileSync(path.join(out, 'index.html'), 'utf8');
-    // Each part's texts are kept as UTF-8 bytes, and are found as they are in the pack's files.
-    const utf8 = new TextDecoder('utf-8', { fatal: true });
-    for (const k of partsBefore) {
-      const text = partValue(out, k).text!;
-      expect(text.md).toBeInstanceOf(Uint8Array);
-      expect(indexMd).toContain(utf8.decode(text.md).slice(0, -1));
-      expect(indexHtml).toContain(utf8.decode(text.html));
-    }
+    // Each part's texts are found in the pack's own index.md and index.html, where the cache's text
+    // index says: index.md is the parts' texts joined by blank lines, and index.html has the parts'
+    // bodies one after another, a line end between each two.
+    const texts = deserialize(readFileSync(path.join(out, CACHE, 'texts.v8'))) as { parts: Map<string, readonly [number, number, number, number]> };
+    const indexMd = readFileSync(path.join(out, 'index.md'));
+    const indexHtml = readFileSync(path.join(out, 'index.html'));
+    expect([...texts.parts.keys()].map((k) => `part-${k}.v8`).sort()).toEqual(partsBefore);
+    const at = [...texts.parts.values()];
+    expect(Buffer.concat(at.flatMap(([s, e], i) => [...(i ? [Buffer.from('\n\n')] : []), indexMd.subarray(s, e)]))).toEqual(indexMd.subarray(0, -1));
+    const bodies = at.filter(([, , s, e]) => e > s);
+    for (let i = 1; i < bodies.length; i++) expect(bodies[i]![2]).toBe(bodies[i - 1]![3] + 1);
+    expect(indexHtml.subarray(bodies[0]![2], bodies[0]![2] + 3).toString()).toBe('<h1');
+    expect(indexHtml.subarray(bodies.at(-1)![3]).toString()).toMatch(/^<\/main>/);
     const partInodes = new Map(partsBefore.map((k) => [k, statSync(entryFile(k)).ino]));
     const chartInodes = new Map(readdirSync(path.join(out, 'charts')).map((f) => [f, statSync(path.join(out, 'charts', f)).ino]));
     const bytesBefore = hashTree(path.join(out, CACHE));
@@ -125,6 +126,12 @@ describe('the build cache', () => {
     const summary = readFileSync(summaryFile, 'latin1');
     expect(summary.split('"keep"').length).toBeGreaterThan(3);
     writeFileSync(summaryFile, summary.replaceAll('"keep"', '"kept"'), 'latin1');
+    // An index.html edited since it was written (same size): no part's texts are copied from it, and
+    // every part is written from its nodes again.
+    const htmlFile = path.join(out, 'index.html');
+    const page = readFileSync(htmlFile, 'latin1');
+    expect(page).toContain('<h2');
+    writeFileSync(htmlFile, page.replace('<h2', '<H2'), 'latin1');
     // A chart of the pack edited in place (same size) is not linked into the new pack, but copied
     // from the cache again.
     const chart = path.join(out, 'charts', readdirSync(path.join(out, 'charts'))[0]!);
@@ -192,8 +199,9 @@ describe('the build cache', () => {
     const coldOut = path.join(temp, 'noted-cold');
     expect(cli('build', noted, '--out', coldOut, '--previous', earlier, '--no-cache', '-q').code).toBe(0);
     expect(packOnly(warmOut)).toEqual(packOnly(coldOut));
-    // Its parts keep their pages but no texts: index.html was made whole.
-    for (const k of partKeys(warmOut)) expect((deserialize(readFileSync(path.join(warmOut, CACHE, k))) as { text: unknown }).text).toBeNull();
+    // Its parts keep their pages, but the cache knows no part's texts: index.html was made whole.
+    expect(partKeys(warmOut).length).toBeGreaterThan(19);
+    expect((deserialize(readFileSync(path.join(warmOut, CACHE, 'texts.v8'))) as { parts: Map<string, unknown> }).parts.size).toBe(0);
     // The footnote is there: its reference and its definition in index.md, its list in index.html.
     const md = readFileSync(path.join(warmOut, 'index.md'), 'utf8');
     expect(md).toContain('[^why]: So that every change');
@@ -315,7 +323,7 @@ describe('made sections', () => {
   async function plans(options: { readonly templateChange?: string } = {}) {
     const { planPack } = await import('../src/build.ts');
     const { loadWorkspace } = await import('../src/workspace/load.ts');
-    const { openCache, openMadeSections, openPartCache, openSummaryPieces } = await import('../src/pack/build-cache.ts');
+    const { openCache, openMadeSections, openPartCache, openPartTexts, openSummaryPieces } = await import('../src/pack/build-cache.ts');
     const loaded = loadWorkspace(ws);
     if (!loaded.ok) throw new Error('the workspace does not load');
     const w = loaded.workspace;
@@ -333,6 +341,7 @@ describe('made sections', () => {
       partCache: openPartCache(out),
       summaryPieces: openSummaryPieces(out),
       madeSections: openMadeSections(out),
+      partTexts: openPartTexts(out),
     });
     for (const f of ['index.md', 'index.html', 'pack.pdf', 'summary.json', 'record.json', 'manifest.json']) {
       expect(Buffer.from(warm.files.get(f)!).equals(Buffer.from(cold.files.get(f)!)), f).toBe(true);

@@ -134,7 +134,7 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
   // A build's heap stays near what is live: a million-point series peaked at 1.5 GB without this (collect.ts).
   moderateHeapGrowth();
   // review.yaml's settings as the last build into --out read them, where its text is the same.
-  const { REVIEW_MEMO, openCache, openMadeSections, openPartCache, openSummaryPieces, reviewMemo } = await import('../pack/build-cache.ts');
+  const { REVIEW_MEMO, openCache, openMadeSections, openPartCache, openPartTexts, openSummaryPieces, reviewMemo } = await import('../pack/build-cache.ts');
   const memo = values['no-cache'] === true ? undefined : reviewMemo(outDir);
   const loaded = loadWorkspace(dir, memo ? { readReview: memo.read } : {});
   if (!loaded.ok) {
@@ -176,7 +176,7 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
       summarySink: () => fileSink(folder, 'summary.json'),
       chartsInto: folder.temp,
       ...(jobs !== undefined ? { jobs } : {}),
-      ...(values['no-cache'] === true ? {} : { cache: openCache(outDir), partCache: openPartCache(outDir), summaryPieces: openSummaryPieces(outDir), madeSections: openMadeSections(outDir) }),
+      ...(values['no-cache'] === true ? {} : { cache: openCache(outDir), partCache: openPartCache(outDir), summaryPieces: openSummaryPieces(outDir), madeSections: openMadeSections(outDir), partTexts: openPartTexts(outDir) }),
       png: values.png === true,
       ...(previous ? { previous } : {}),
       ...(previousLedger ? { previousLedger } : {}),

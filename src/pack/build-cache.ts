@@ -22,7 +22,7 @@ import type { MadeSection } from './made-section.ts';
 import type { Template } from './template.ts';
 import type { IsoDate } from '../model.ts';
 import type { LaidOutPart, Paper } from './pdf.ts';
-import type { PartText } from './text-pages.ts';
+import type { KnownText, PlacedText } from './text-pages.ts';
 import { type FileRange, type FileStamp, readExactly, sameStamp, stampOf } from './write.ts';
 import { TOOL } from '../version.ts';
 import type { CharacteristicInput, Workspace } from '../workspace/load.ts';
@@ -31,7 +31,7 @@ import { readReview } from '../workspace/review-file.ts';
 
 export const CACHE_DIR = '.plumbline-cache';
 /** Bump when what an entry holds, or how it is computed, changes without a tool version change. */
-const FORMAT = 9;
+const FORMAT = 10;
 
 /**
  * What is kept beside an entry, each in a file of its own that a rebuild
@@ -272,13 +272,12 @@ export function partKey(digest: string, chartKeys: readonly string[], paper: Pap
 }
 
 /**
- * One part of the pack as an earlier build made it: its pages of pack.pdf
- * and its index.md and index.html texts (null for a tree with footnotes,
- * whose index.html is made whole), in one file under the part's key.
+ * One part of the pack as an earlier build made it: its pages of pack.pdf,
+ * in a file under the part's key. Its index.md and index.html texts are
+ * found in that build's own files (openPartTexts).
  */
 export interface CachedPart {
   readonly pdf: LaidOutPart;
-  readonly text: PartText | null;
 }
 
 export const partPath = (key: string) => `${CACHE_DIR}/part-${key}.v8`;
@@ -287,9 +286,7 @@ const isPart = (p: unknown): p is LaidOutPart =>
   typeof p === 'object' && p !== null && Array.isArray((p as LaidOutPart).sheets) && (p as LaidOutPart).sheets.every((s) => s instanceof Uint8Array) &&
   Array.isArray((p as LaidOutPart).anchors) && Array.isArray((p as LaidOutPart).links) && Array.isArray((p as LaidOutPart).contentsLines) && Array.isArray((p as LaidOutPart).opacities) && Array.isArray((p as LaidOutPart).shaped);
 
-const isText = (t: unknown): t is PartText => typeof t === 'object' && t !== null && (t as PartText).md instanceof Uint8Array && (t as PartText).html instanceof Uint8Array;
-
-const isCachedPart = (v: unknown): v is CachedPart => typeof v === 'object' && v !== null && isPart((v as CachedPart).pdf) && ((v as CachedPart).text === null || isText((v as CachedPart).text));
+const isCachedPart = (v: unknown): v is CachedPart => typeof v === 'object' && v !== null && isPart((v as CachedPart).pdf);
 
 /** What an earlier build kept, read on demand: the value, and its file's bytes for a rebuild to link. */
 export type Stored<T> = (key: string) => { readonly value: T; readonly bytes: () => Uint8Array } | undefined;
@@ -430,5 +427,61 @@ export function reviewMemo(packDir: string): {
       return parsed;
     },
     keep: () => kept,
+  };
+}
+
+/** index.md or index.html as a build wrote it: its size, SHA-256 and stamp. */
+export interface PageRecord {
+  readonly bytes: number;
+  readonly sha256: string;
+  readonly stamp: FileStamp | undefined;
+}
+
+/**
+ * Where each part's texts are in the pack's index.md and index.html (by
+ * part key), with those files as written: a rebuild copies an unchanged
+ * part's texts from there, and uses none if either file is not as written.
+ */
+export interface TextIndex {
+  readonly md: PageRecord;
+  readonly html: PageRecord;
+  readonly parts: ReadonlyMap<string, PlacedText>;
+}
+
+export const TEXT_INDEX = `${CACHE_DIR}/texts.v8`;
+
+const isPageRecord = (r: unknown): r is PageRecord => typeof r === 'object' && r !== null && Number.isSafeInteger((r as PageRecord).bytes) && typeof (r as PageRecord).sha256 === 'string';
+
+/**
+ * The texts of the pack's parts in `packDir`, by part key: where they are
+ * in its index.md and index.html, if both files are as the index says (by
+ * their stamps, else read through for their SHA-256s, once, when a part is
+ * first asked for).
+ */
+export function openPartTexts(packDir: string): (key: string) => KnownText | undefined {
+  let index: unknown;
+  try {
+    index = deserialize(readFileSync(path.join(packDir, TEXT_INDEX)));
+  } catch {
+    return () => undefined;
+  }
+  const i = index as TextIndex;
+  if (typeof index !== 'object' || index === null || !isPageRecord(i.md) || !isPageRecord(i.html) || !(i.parts instanceof Map)) return () => undefined;
+  const md = path.join(packDir, 'index.md');
+  const html = path.join(packDir, 'index.html');
+  const asWritten = (file: string, r: PageRecord) => {
+    if (sameStamp(stampOf(file), r.stamp)) return true;
+    try {
+      return statSync(file).size === r.bytes && digestOfFile(file, 'sha256') === r.sha256;
+    } catch {
+      return false;
+    }
+  };
+  let valid: boolean | undefined;
+  return (key) => {
+    const at = i.parts.get(key);
+    if (!Array.isArray(at) || at.length !== 4 || !(at[0] <= at[1] && at[1] <= i.md.bytes && at[2] <= at[3] && at[3] <= i.html.bytes)) return undefined;
+    if (!(valid ??= asWritten(md, i.md) && asWritten(html, i.html))) return undefined;
+    return { md: { file: md, start: at[0], end: at[1] }, html: { file: html, start: at[2], end: at[3] } };
   };
 }

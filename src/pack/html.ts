@@ -12,7 +12,7 @@ import { unified } from 'unified';
 import { FONT_FAMILY } from '../render/fonts.ts';
 import type { Scene } from '../render/scene/types.ts';
 import { inlineSvg } from '../render/svg-inline.ts';
-import { concatBytes } from './bytes.ts';
+import { type ByteSink, type FileRange, memorySink } from './bytes.ts';
 import { hasFootnotes } from './mdast.ts';
 import { PACK_CSS } from './style.ts';
 
@@ -37,8 +37,8 @@ function fontFace(bytes: Uint8Array, weight: number): string {
 export interface HtmlParts {
   /** The tree's top-level nodes in parts (splitParts); the page's body is theirs in order. */
   readonly parts: readonly (readonly RootContent[])[];
-  /** A part's body HTML as an earlier build wrote it, if known. */
-  readonly known: (i: number) => Uint8Array | undefined;
+  /** A part's body HTML as an earlier build wrote it, if known: its bytes, or where they are in that build's index.html. */
+  readonly known: (i: number) => Uint8Array | FileRange | undefined;
   /** Hears of each part's body HTML written here. */
   readonly fresh: (i: number, html: Uint8Array) => void;
 }
@@ -130,18 +130,34 @@ export function toHtml(input: HtmlInput, { whole = false }: { readonly whole?: b
  * a tree with any is converted whole, by toHtml.
  */
 export function toHtmlByParts(input: HtmlInput, parts: HtmlParts): Uint8Array {
+  const sink = memorySink(() => {
+    throw new Error('internal: no part is known by its place in a file here');
+  });
+  writeHtmlByParts(input, parts, sink);
+  return sink.bytes();
+}
+
+/**
+ * index.html into `sink`, part by part: a known part as its bytes, or as
+ * the range of an earlier index.html that holds them; `placed` hears where
+ * each part's bytes went (an empty part's range is empty).
+ */
+export function writeHtmlByParts(input: HtmlInput, parts: HtmlParts, sink: ByteSink, placed: (i: number, start: number, end: number) => void = () => {}): void {
   if (hasFootnotes(input.tree)) throw new Error('internal: a tree with footnotes is converted whole, not in parts');
   const page = pageParts(input);
-  const chunks: Uint8Array[] = [encoder.encode(page.before)];
+  sink.write(encoder.encode(page.before));
   let first = true;
   parts.parts.forEach((nodes, i) => {
     let html = parts.known(i);
     if (html === undefined) parts.fresh(i, (html = encoder.encode(page.convert(nodes).join('\n'))));
-    if (html.length === 0) return;
-    if (!first) chunks.push(NEWLINE);
-    chunks.push(html);
+    const length = html instanceof Uint8Array ? html.length : html.end - html.start;
+    if (length === 0) return placed(i, sink.length, sink.length);
+    if (!first) sink.write(NEWLINE);
+    const start = sink.length;
+    if (html instanceof Uint8Array) sink.write(html);
+    else sink.copy(html);
+    placed(i, start, sink.length);
     first = false;
   });
-  chunks.push(encoder.encode(page.after));
-  return concatBytes(chunks);
+  sink.write(encoder.encode(page.after));
 }

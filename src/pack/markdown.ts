@@ -4,7 +4,7 @@ import type { Handle } from 'mdast-util-to-markdown';
 import remarkGfm from 'remark-gfm';
 import remarkStringify from 'remark-stringify';
 import { unified } from 'unified';
-import { concatBytes } from './bytes.ts';
+import { type ByteSink, type FileRange, memorySink } from './bytes.ts';
 
 const ZWSP = '\u200b';
 const encoder = new TextEncoder();
@@ -77,14 +77,35 @@ export function toMarkdown(tree: Root): string {
  * (test/pack/parts.test.ts).
  */
 export function toMarkdownByParts(parts: readonly (readonly RootContent[])[], known: (i: number) => Uint8Array | undefined, fresh: (i: number, md: Uint8Array) => void): Uint8Array {
-  const chunks: Uint8Array[] = [];
+  const sink = memorySink(() => {
+    throw new Error('internal: no part is known by its place in a file here');
+  });
+  writeMarkdownByParts(parts, known, fresh, sink);
+  return sink.bytes();
+}
+
+/**
+ * index.md into `sink`, part by part: a known part as its text (ending in
+ * its line end, which the joins replace), or as the range of an earlier
+ * index.md that holds it as written there (without); `placed` hears where
+ * each part's text went.
+ */
+export function writeMarkdownByParts(
+  parts: readonly (readonly RootContent[])[],
+  known: (i: number) => Uint8Array | FileRange | undefined,
+  fresh: (i: number, md: Uint8Array) => void,
+  sink: ByteSink,
+  placed: (i: number, start: number, end: number) => void = () => {},
+): void {
   parts.forEach((nodes, i) => {
     let md = known(i);
     if (md === undefined) fresh(i, (md = encoder.encode(processor.stringify({ type: 'root', children: [...nodes] }))));
-    if (i > 0) chunks.push(BLANK_LINE);
+    if (i > 0) sink.write(BLANK_LINE);
+    const start = sink.length;
     // Each part's text ends with the one line end a document ends with.
-    chunks.push(md.subarray(0, md.length - 1));
+    if (md instanceof Uint8Array) sink.write(md.subarray(0, md.length - 1));
+    else sink.copy(md);
+    placed(i, start, sink.length);
   });
-  chunks.push(LINE_END);
-  return concatBytes(chunks);
+  sink.write(LINE_END);
 }

@@ -41,6 +41,6 @@ parentPort!.on('message', async (message: PagesMessage) => {
   const charts = drawing ? await drawing : [];
   const reply = { ...pages, charts };
   const answer: PagesReply = { pages: reply };
-  // Moved, not copied (the parts' new texts too): a plant's SVGs are 66 MB, and a copy on each side raised the build's peak past 1 GiB.
-  parentPort!.postMessage(answer, [reply.md.buffer, reply.html.buffer, ...reply.charts.flatMap((c) => ('svg' in c ? [c.svg.buffer] : [])), ...reply.fresh.flatMap(([, t]) => [t.md.buffer, t.html.buffer])] as ArrayBuffer[]);
+  // Moved, not copied: a plant's SVGs are 66 MB, and a copy on each side raised the build's peak past 1 GiB.
+  parentPort!.postMessage(answer, [...[reply.md, reply.html].flatMap((p) => (p instanceof Uint8Array ? [p.buffer] : [])), ...reply.charts.flatMap((c) => ('svg' in c ? [c.svg.buffer] : []))] as ArrayBuffer[]);
 });

@@ -6,6 +6,7 @@
 import { createHash } from 'node:crypto';
 import { closeSync, constants, copyFileSync, existsSync, linkSync, lstatSync, mkdirSync, openSync, readSync, readdirSync, renameSync, rmSync, statSync, writeFileSync, writeSync } from 'node:fs';
 import path from 'node:path';
+import type { ByteSink, FileRange } from './bytes.ts';
 
 export class OutputRefused extends Error {}
 
@@ -128,12 +129,7 @@ export interface SunkFile {
   readonly sha1: string;
 }
 
-/** Bytes `start` to `end` (exclusive) of `file`. */
-export interface FileRange {
-  readonly file: string;
-  readonly start: number;
-  readonly end: number;
-}
+export type { FileRange } from './bytes.ts';
 
 /** A sunk file with room left for other files' bytes: `fillFile(fill)` copies them in and hashes it. */
 export interface UnfilledFile {
@@ -172,6 +168,66 @@ export function fileSink(folder: PackFolder, name: string): FileSink {
       return { bytes, sha256: hash.digest('hex'), sha1: check.digest('hex') };
     },
   };
+}
+
+/**
+ * A file written from a sink (`file`, made with its folders), hashed on
+ * the way: a range is copied in at once, read from its file. `close` gives
+ * its size and SHA-256. A source shorter than its range (changed since the
+ * build began) is an error.
+ */
+export function copyingSink(file: string): ByteSink & { close(): { readonly bytes: number; readonly sha256: string } } {
+  mkdirSync(path.dirname(file), { recursive: true });
+  const fd = openSync(file, 'w');
+  const hash = createHash('sha256');
+  const sources = new Map<string, number>();
+  let buffer = new Uint8Array(1 << 16);
+  let length = 0;
+  const write = (bytes: Uint8Array) => {
+    writeExactly(fd, bytes, length);
+    hash.update(bytes);
+    length += bytes.length;
+  };
+  const closeAll = () => {
+    closeSync(fd);
+    for (const source of sources.values()) closeSync(source);
+  };
+  return {
+    write,
+    copy(from) {
+      try {
+        let source = sources.get(from.file);
+        if (source === undefined) sources.set(from.file, (source = openSync(from.file, 'r')));
+        const n = from.end - from.start;
+        if (buffer.length < n) buffer = new Uint8Array(Math.max(n, buffer.length * 2));
+        const bytes = buffer.subarray(0, n);
+        readExactly(source, from.file, bytes, from.start);
+        write(bytes);
+      } catch (e) {
+        closeAll();
+        throw e;
+      }
+    },
+    get length() {
+      return length;
+    },
+    close() {
+      closeAll();
+      return { bytes: length, sha256: hash.digest('hex') };
+    },
+  };
+}
+
+/** Bytes `from.start` to `from.end` of `from.file`, read at once. */
+export function readRange(from: FileRange): Uint8Array {
+  const fd = openSync(from.file, 'r');
+  try {
+    const out = new Uint8Array(from.end - from.start);
+    readExactly(fd, from.file, out, from.start);
+    return out;
+  } finally {
+    closeSync(fd);
+  }
 }
 
 /**

@@ -100,7 +100,7 @@ describe('summary.json through a sink', () => {
         if (!entry) return undefined;
         const sides = entry.sides as Record<SideKind, { bytes: number; sha256?: string } | undefined>;
         const hit = (kind: SideKind) => (sides[kind] ? { path: sidePath(key, kind), file: sides[kind], read: () => side(key, kind) } : undefined);
-        return { brief: entry.brief, sides: entry.sides, assessment: () => assessments.get(key), path: 'not linked', entryBytes: entry.bytes, side: hit } as CacheHit;
+        return { brief: entry.brief, sides: entry.sides, assessment: () => assessments.get(key), path: 'not linked', entryBytes: entry.bytes, packed: entry.packed, side: hit } as CacheHit;
       },
     });
     expect(again.cacheUse).toEqual({ reused: 19, redone: 0 });
