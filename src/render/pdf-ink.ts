@@ -171,6 +171,11 @@ export class SheetInk {
     this.ops.push(ops.join('\n'));
   }
 
+  /** Draws the form (a Form XObject of the page's resources) named `name`. */
+  form(name: string): void {
+    this.ops.push(`/${name} Do`);
+  }
+
   get empty(): boolean {
     return this.ops.length === 0;
   }
