@@ -16,11 +16,11 @@
  */
 import { deflateSync } from 'node:zlib';
 import type { Code, Heading, List, PhrasingContent, Root, RootContent, Table } from 'mdast';
-import { PDFDocument, PDFName, PDFPageLeaf, type PDFRef, rgb } from '../render/pdf-lib.ts';
+import { rgb } from '../render/pdf-lib.ts';
 import { fontkit } from '../render/fontkit.ts';
 import { type PdfFaces, drawScene } from '../render/pdf-chart.ts';
-import { useNativeDeflate } from '../render/pdf-deflate.ts';
-import { embedWholeFont } from '../render/pdf-font.ts';
+import { writeWholeFont } from '../render/pdf-font.ts';
+import { PdfFile, array, asciiString, dateString, dict, num, ref, textString } from './pdf-file.ts';
 import { type Face, SheetInk, opacityKey, textWidth } from '../render/pdf-ink.ts';
 import type { Scene } from '../render/scene/types.ts';
 import { chartIdOf, plain } from './mdast.ts';
@@ -454,15 +454,6 @@ export function layoutPart(nodes: readonly RootContent[], first: boolean, contex
  */
 const SHEET_LEVEL = 4;
 
-/**
- * pdf-lib's save yields to the event loop every `objectsPerTick` objects
- * (50 by default), through a setTimeout of 0, which Node holds for a
- * millisecond: twice over a plant's 15,000 objects, 0.6 s spent waiting. The
- * build has nothing to do meanwhile, so it never yields. The bytes are the
- * same (checked with cmp on the demo's pack.pdf).
- */
-const SAVE = { useObjectStreams: false, objectsPerTick: Number.POSITIVE_INFINITY } as const;
-
 /** A page's own additions (its footer's number, a contents page's numbers) up to this many bytes are written uncompressed: zlib's set-up costs more than it saves on a few dozen bytes. */
 const SMALL_STREAM = 512;
 
@@ -480,23 +471,20 @@ function partOf(sheets: readonly SheetInk[], anchors: LaidOutPart['anchors'], li
 }
 
 export async function toPdf(input: PdfInput): Promise<{ bytes: Uint8Array; parts: LaidOutPart[] }> {
-  useNativeDeflate();
-  const doc = await PDFDocument.create({ updateMetadata: false });
-  const asOf = new Date(`${input.asOf}T00:00:00Z`);
-  doc.setTitle(clean(input.title), { showInWindowTitleBar: true });
-  doc.setSubject(clean(input.subject));
-  doc.setAuthor(clean(input.author));
-  doc.setCreator(input.producer);
-  doc.setProducer(input.producer);
-  doc.setCreationDate(asOf);
-  doc.setModificationDate(asOf);
-  doc.setLanguage('en');
-
   const faces = facesOf(input.fonts);
   const context: LayoutContext = { paper: input.paper, scenes: input.scenes, faces };
   const parts = splitParts(input.tree).map((nodes, i) => input.reuse?.(i, nodes) ?? layoutPart(nodes, i === 0, context));
-  assemble(doc, parts, input.fonts, faces, PAPER[input.paper], clean(input.title));
-  return { bytes: await doc.save(SAVE), parts };
+  const asOf = dateString(new Date(`${input.asOf}T00:00:00Z`));
+  const bytes = assemble(parts, input.fonts, faces, PAPER[input.paper], clean(input.title), {
+    Title: textString(clean(input.title)),
+    Author: textString(clean(input.author)),
+    Subject: textString(clean(input.subject)),
+    Creator: textString(input.producer),
+    Producer: textString(input.producer),
+    CreationDate: asOf,
+    ModDate: asOf,
+  });
+  return { bytes, parts };
 }
 
 /**
@@ -504,52 +492,52 @@ export async function toPdf(input: PdfInput): Promise<{ bytes: Uint8Array; parts
  * assembly (tests and the benchmark read it back).
  */
 export async function scenePdf(scene: Scene, fonts: PdfInput['fonts']): Promise<Uint8Array> {
-  useNativeDeflate();
-  const doc = await PDFDocument.create({ updateMetadata: false });
   const faces = facesOf(fonts);
   const ink = new SheetInk();
   drawScene(ink, scene, { x: 20, top: scene.height + 20, scale: 1 }, faces);
-  assemble(doc, [partOf([ink], [], [], [])], fonts, faces, [scene.width + 40, scene.height + 40], null);
-  return doc.save(SAVE);
+  return assemble([partOf([ink], [], [], [])], fonts, faces, [scene.width + 40, scene.height + 40], null, {});
 }
 
 /**
- * The document's pages from the parts, in order, with the fonts, one
+ * The document from the parts, in order: its pages, with the fonts, one
  * resource dictionary, the contents page's numbers, the links and, where
- * `footer` is given, a footer with it and the page number on every page.
+ * `footer` is given, a footer with it and the page number on every page;
+ * `info` is the document information dictionary's entries (§14.3.3).
  */
-function assemble(doc: PDFDocument, parts: readonly LaidOutPart[], fonts: PdfInput['fonts'], faces: PdfFaces, size: readonly [number, number], footer: string | null): void {
-  // The fonts are embedded once what the pages draw is known (pdf-font.ts), as Font objects that
-  // come before the pages, as pdf-lib's own embedding put them.
-  const fontRefs = { F0: doc.context.nextRef(), F1: doc.context.nextRef() };
+function assemble(
+  parts: readonly LaidOutPart[],
+  fonts: PdfInput['fonts'],
+  faces: PdfFaces,
+  size: readonly [number, number],
+  footer: string | null,
+  info: Readonly<Record<string, string>>,
+): Uint8Array {
+  const file = new PdfFile();
+  const pagesRoot = file.reserve();
+  const catalog = file.add(dict({ Type: '/Catalog', Pages: ref(pagesRoot), ViewerPreferences: dict({ DisplayDocTitle: 'true' }), Lang: asciiString('en') }));
+  const infoRef = file.add(dict(info));
+  // The fonts are written once what the pages draw is known (pdf-font.ts); the pages refer to them before.
+  const fontRefs = { F0: file.reserve(), F1: file.reserve() };
+  const fontDict = dict({ F0: ref(fontRefs.F0), F1: ref(fontRefs.F1) });
   const [pageW, pageH] = size;
   const width = pageW - MARGIN.left - MARGIN.right;
-  // One resource dictionary for every page: the two fonts and each opacity's graphics state.
+  const mediaBox = array(['0', '0', num(pageW), num(pageH)]);
+  // One resource dictionary for every page: the two fonts, each opacity's graphics state and the
+  // footer's forms (written last, once the forms are known).
   const opacities = [...new Set(parts.flatMap((p) => p.opacities))].sort((a, b) => a - b);
-  const states = Object.fromEntries(opacities.map((o) => [opacityKey(o), doc.context.register(doc.context.obj({ Type: 'ExtGState', ca: o, CA: o }))]));
-  const resourceDict = doc.context.obj({ Font: fontRefs, ...(opacities.length ? { ExtGState: states } : {}) });
-  const resources = doc.context.register(resourceDict);
-  const pageRefs: PDFRef[] = [];
+  const states = opacities.map((o) => [opacityKey(o), file.add(dict({ Type: '/ExtGState', ca: num(o), CA: num(o) }))] as const);
+  const resources = file.reserve();
   const anchors = new Map<string, { page: number; y: number }>();
   const links: LinkBox[] = [];
   const contentsLines: { page: number; y: number; target: string }[] = [];
-  const bodies: PDFRef[] = [];
-  // Pages are appended to the page tree's root as pdf-lib's addPage makes them, but directly: addPage
-  // counts its way through every page before to find the end (a plant's 3,000 pages: 0.25 s).
-  const tree = doc.catalog.Pages();
-  const treeRef = doc.catalog.get(PDFName.of('Pages')) as PDFRef;
-  const leaves: PDFPageLeaf[] = [];
+  // Page objects are numbered now (links point at pages of later parts) and written at the end.
+  const pageRefs: number[] = [];
+  const bodies: number[] = [];
   for (const part of parts) {
     const first = pageRefs.length;
     for (const sheet of part.sheets) {
-      const leaf = PDFPageLeaf.withContextAndParent(doc.context, treeRef);
-      leaf.set(PDFName.of('MediaBox'), doc.context.obj([0, 0, pageW, pageH]));
-      const ref = doc.context.register(leaf);
-      tree.pushLeafNode(ref);
-      leaf.set(PDFName.of('Resources'), resources);
-      leaves.push(leaf);
-      pageRefs.push(ref);
-      bodies.push(doc.context.register(doc.context.stream(sheet, { Filter: 'FlateDecode' })));
+      pageRefs.push(file.reserve());
+      bodies.push(file.stream({ Filter: '/FlateDecode' }, sheet));
     }
     // The first anchor of an id wins, as before.
     for (const [id, sheet, y] of part.anchors) if (!anchors.has(id)) anchors.set(id, { page: first + sheet, y });
@@ -570,18 +558,15 @@ function assemble(doc: PDFDocument, parts: readonly LaidOutPart[], fonts: PdfInp
   // The footer's title is the same on every page: drawn once, as a form each page draws (one per
   // shortening of it), so that a page's own footer is its number alone, too short to be worth
   // compressing. Compressing 2,194 footers one by one took 0.15–0.2 s of a plant's rebuild.
-  const titleForms = new Map<string, { name: string; ink: SheetInk }>();
-  const formRefs: Record<string, PDFRef> = {};
+  const titleForms = new Map<string, { name: string; ink: SheetInk; ref: number }>();
   const formOf = (title: string) => {
     let form = titleForms.get(title);
     if (!form) {
       const ink = new SheetInk();
       ink.text(title, MARGIN.left, MARGIN.bottom - 26, 8, faces.regular, MUTED, true);
-      form = { name: `T${titleForms.size}`, ink };
+      const content = deflateSync(ink.content());
+      form = { name: `T${titleForms.size}`, ink, ref: file.stream({ Type: '/XObject', Subtype: '/Form', BBox: mediaBox, Resources: dict({ Font: fontDict }), Filter: '/FlateDecode' }, content) };
       titleForms.set(title, form);
-      formRefs[form.name] = doc.context.register(
-        doc.context.flateStream(ink.content(), { Type: 'XObject', Subtype: 'Form', BBox: [0, 0, pageW, pageH], Resources: { Font: fontRefs } }),
-      );
     }
     return form.name;
   };
@@ -595,23 +580,23 @@ function assemble(doc: PDFDocument, parts: readonly LaidOutPart[], fonts: PdfInp
     extras[line.page]!.text(label, MARGIN.left + width - widthOf(faces.regular, label, 10.5), line.y - 10.5 * 0.95, 10.5, faces.regular, INK);
     links.push({ page: line.page, rect: [MARGIN.left, line.y - 14, MARGIN.left + width, line.y + 1], target: line.target });
   }
-  const annots = pageRefs.map((): PDFRef[] => []);
+  const annots = pageRefs.map((): number[] => []);
   for (const l of links) {
     const target = anchors.get(l.target);
     if (!target) continue;
-    const annot = doc.context.obj({
-      Type: 'Annot',
-      Subtype: 'Link',
-      Rect: [...l.rect],
-      Border: [0, 0, 0],
-      Dest: [pageRefs[target.page]!, PDFName.of('XYZ'), null, target.y, null],
+    const annot = dict({
+      Type: '/Annot',
+      Subtype: '/Link',
+      Rect: array(l.rect.map(num)),
+      Border: '[ 0 0 0 ]',
+      Dest: array([ref(pageRefs[target.page]!), '/XYZ', 'null', num(target.y), 'null']),
     });
-    annots[l.page]!.push(doc.context.register(annot));
+    annots[l.page]!.push(file.add(annot));
   }
-  leaves.forEach((leaf, i) => {
+  pageRefs.forEach((page, i) => {
     const ink = extras[i]!;
     if (footer !== null) {
-      const n = `Page ${i + 1} of ${leaves.length}`;
+      const n = `Page ${i + 1} of ${pageRefs.length}`;
       ink.text(n, MARGIN.left + width - widthOf(faces.regular, n, 8), MARGIN.bottom - 26, 8, faces.regular, MUTED);
       const maxTitle = width - widthOf(faces.regular, n, 8) - 20;
       let title = shortened.get(maxTitle);
@@ -622,16 +607,30 @@ function assemble(doc: PDFDocument, parts: readonly LaidOutPart[], fonts: PdfInp
       }
       ink.form(formOf(title));
     }
-    const drawn = ink.content();
-    const extra = drawn.length > SMALL_STREAM ? doc.context.flateStream(drawn) : doc.context.stream(drawn);
-    const contents = ink.empty ? [bodies[i]!] : [bodies[i]!, doc.context.register(extra)];
-    leaf.set(PDFName.of('Contents'), doc.context.obj(contents));
-    if (annots[i]!.length) leaf.set(PDFName.of('Annots'), doc.context.obj(annots[i]!));
+    const contents = [ref(bodies[i]!)];
+    if (!ink.empty) {
+      const drawn = Buffer.from(ink.content(), 'latin1');
+      contents.push(ref(drawn.length > SMALL_STREAM ? file.stream({ Filter: '/FlateDecode' }, deflateSync(drawn)) : file.stream({}, drawn)));
+    }
+    file.put(
+      page,
+      dict({ Type: '/Page', Parent: ref(pagesRoot), Resources: ref(resources), MediaBox: mediaBox, Contents: array(contents), Annots: annots[i]!.length ? array(annots[i]!.map(ref)) : undefined }),
+    );
   });
-  if (titleForms.size) resourceDict.set(PDFName.of('XObject'), doc.context.obj(formRefs));
+  file.put(pagesRoot, dict({ Type: '/Pages', Kids: array(pageRefs.map(ref)), Count: String(pageRefs.length) }));
+  const named = (entries: readonly (readonly [string, number])[]) => dict(Object.fromEntries(entries.map(([k, n]) => [k, ref(n)])));
+  file.put(
+    resources,
+    dict({
+      Font: fontDict,
+      ExtGState: states.length ? named(states) : undefined,
+      XObject: titleForms.size ? named([...titleForms.values()].map((f) => [f.name, f.ref] as const)) : undefined,
+    }),
+  );
   // Glyphs shaping made, with their text; the first part that drew one names it.
   const shaped = { F0: new Map<number, string>(), F1: new Map<number, string>() };
   for (const [face, g, t] of [...parts.flatMap((p) => p.shaped), ...shapedOf([...extras, ...[...titleForms.values()].map((f) => f.ink)])]) if ((face === 'F0' || face === 'F1') && !shaped[face].has(g)) shaped[face].set(g, t);
-  embedWholeFont(doc, fonts.regular, faces.regular.font, shaped.F0, fontRefs.F0);
-  embedWholeFont(doc, fonts.semibold, faces.semibold.font, shaped.F1, fontRefs.F1);
+  writeWholeFont(file, fonts.regular, faces.regular.font, shaped.F0, fontRefs.F0);
+  writeWholeFont(file, fonts.semibold, faces.semibold.font, shaped.F1, fontRefs.F1);
+  return file.finish(catalog, infoRef);
 }

@@ -11,7 +11,7 @@
  * before a combining mark), from the text they were shaped from.
  */
 import { deflateSync } from 'node:zlib';
-import { type PDFDocument, PDFNumber, type PDFRef, PDFString } from './pdf-lib.ts';
+import { type PdfFile, array, asciiString, dict, name, num, ref } from '../pack/pdf-file.ts';
 import type { FontkitFont } from './fontkit.ts';
 
 const KEEP = new Set(['head', 'hhea', 'loca', 'maxp', 'cvt ', 'prep', 'glyf', 'hmtx', 'fpgm', 'OS/2', 'name']);
@@ -93,42 +93,41 @@ export function cmapText(font: FontkitFont): ReadonlyMap<number, string> {
 }
 
 /**
- * Embeds `bytes` (the file `font` was read from) into `doc` as the Type0
- * font object `ref`; `shaped` gives the text of glyphs shaping made.
+ * Writes `bytes` (the file `font` was read from) into `file` as the Type0
+ * font object `n`; `shaped` gives the text of glyphs shaping made.
  */
-export function embedWholeFont(doc: PDFDocument, bytes: Uint8Array, font: FontkitFont, shaped: ReadonlyMap<number, string>, ref = doc.context.nextRef()): PDFRef {
-  const ctx = doc.context;
+export function writeWholeFont(file: PdfFile, bytes: Uint8Array, font: FontkitFont, shaped: ReadonlyMap<number, string>, n: number): void {
   const scale = 1000 / font.unitsPerEm;
-  const name = font.postscriptName || 'Font';
+  const fontName = name(font.postscriptName || 'Font');
   const program = pdfFontProgram(bytes);
-  const file = ctx.register(ctx.stream(deflateSync(program), { Filter: 'FlateDecode', Length1: program.length }));
+  const program2 = file.stream({ Filter: '/FlateDecode', Length1: String(program.length) }, deflateSync(program));
   const { minX, minY, maxX, maxY } = font.bbox;
-  const descriptor = ctx.register(
-    ctx.obj({
-      Type: 'FontDescriptor',
-      FontName: name,
+  const descriptor = file.add(
+    dict({
+      Type: '/FontDescriptor',
+      FontName: fontName,
       // Nonsymbolic (bit 6): the glyphs are Latin text (§9.8.2).
-      Flags: 32,
-      FontBBox: [minX * scale, minY * scale, maxX * scale, maxY * scale],
-      ItalicAngle: font.italicAngle,
-      Ascent: font.ascent * scale,
-      Descent: font.descent * scale,
-      CapHeight: (font.capHeight || font.ascent) * scale,
-      XHeight: (font.xHeight || 0) * scale,
-      StemV: 0,
-      FontFile2: file,
+      Flags: '32',
+      FontBBox: array([minX * scale, minY * scale, maxX * scale, maxY * scale].map(num)),
+      ItalicAngle: num(font.italicAngle),
+      Ascent: num(font.ascent * scale),
+      Descent: num(font.descent * scale),
+      CapHeight: num((font.capHeight || font.ascent) * scale),
+      XHeight: num((font.xHeight || 0) * scale),
+      StemV: '0',
+      FontFile2: ref(program2),
     }),
   );
-  const widths = Array.from({ length: font.numGlyphs }, (_, id) => PDFNumber.of(Math.round(font.getGlyph(id).advanceWidth * scale * 1000) / 1000));
-  const cid = ctx.register(
-    ctx.obj({
-      Type: 'Font',
-      Subtype: 'CIDFontType2',
-      BaseFont: name,
-      CIDSystemInfo: { Registry: PDFString.of('Adobe'), Ordering: PDFString.of('Identity'), Supplement: 0 },
-      FontDescriptor: descriptor,
-      W: [0, widths],
-      CIDToGIDMap: 'Identity',
+  const widths = Array.from({ length: font.numGlyphs }, (_, id) => num(Math.round(font.getGlyph(id).advanceWidth * scale * 1000) / 1000));
+  const cid = file.add(
+    dict({
+      Type: '/Font',
+      Subtype: '/CIDFontType2',
+      BaseFont: fontName,
+      CIDSystemInfo: dict({ Registry: asciiString('Adobe'), Ordering: asciiString('Identity'), Supplement: '0' }),
+      FontDescriptor: ref(descriptor),
+      W: array(['0', array(widths)]),
+      CIDToGIDMap: '/Identity',
     }),
   );
   const text = new Map(cmapText(font));
@@ -157,7 +156,6 @@ export function embedWholeFont(doc: PDFDocument, bytes: Uint8Array, font: Fontki
     'end',
     'end',
   ].join('\n');
-  const toUnicode = ctx.register(ctx.flateStream(cmap));
-  ctx.assign(ref, ctx.obj({ Type: 'Font', Subtype: 'Type0', BaseFont: name, Encoding: 'Identity-H', DescendantFonts: [cid], ToUnicode: toUnicode }));
-  return ref;
+  const toUnicode = file.stream({ Filter: '/FlateDecode' }, deflateSync(cmap));
+  file.put(n, dict({ Type: '/Font', Subtype: '/Type0', BaseFont: fontName, Encoding: '/Identity-H', DescendantFonts: array([ref(cid)]), ToUnicode: ref(toUnicode) }));
 }

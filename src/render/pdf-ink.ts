@@ -13,14 +13,12 @@
  */
 import type { RGB } from './pdf-lib.ts';
 import { decimalText } from '../format.ts';
+import { num } from '../pack/pdf-file.ts';
 import type { FontkitFont } from './fontkit.ts';
 import { cmapText } from './pdf-font.ts';
 
 /** A number for a content stream: at most three decimals, no exponent, no "-0". */
-export function pdfNum(v: number): string {
-  if (!Number.isFinite(v)) throw new Error(`internal: non-finite PDF number ${v}`);
-  return decimalText(v, 3);
-}
+export const pdfNum = num;
 
 export const rgbOperands = (c: RGB) => `${pdfNum(c.red)} ${pdfNum(c.green)} ${pdfNum(c.blue)}`;
 
