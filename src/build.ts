@@ -13,7 +13,8 @@ import type { Brief } from './pack/brief.ts';
 import { type MadeSection, madeOf, nodesDigest } from './pack/made-section.ts';
 import { MarkedJson, WrittenJson, jsonBytes, jsonChunks } from './pack/json-bytes.ts';
 import { type FileSink, type FileStamp, type SunkFile, type UnfilledFile, fillFile, stampOf } from './pack/write.ts';
-import { type KnownText, type PagePart, type PagesWorker, type SvgJob, type TextPagesInput, startPagesWorker, writeTextPagesHere } from './pack/text-pages.ts';
+import { type KnownText, type PagePart, type SvgJob, type TextPagesInput, writeTextPagesHere } from './pack/text-pages.ts';
+import { type PagesWorker, startPagesWorker, startsPagesWorkerEarly } from './pack/pages-thread.ts';
 import { type LaidOutPart, type Paper, toPdf } from './pack/pdf.ts';
 import { loadFonts } from './render/fonts.ts';
 import { svgToPng } from './render/png.ts';
@@ -87,6 +88,13 @@ export interface PackOptions {
    * thread's at the end of the build. The plan lists them under `placed`.
    */
   readonly chartsInto?: string;
+  /**
+   * The pages worker, started by the caller as soon as it had read the
+   * workspace (`startsPagesWorkerEarly`), so that it has loaded its modules
+   * by the time it is needed; the caller stops it. Used where the build may
+   * use two threads or more.
+   */
+  readonly pagesWorker?: PagesWorker;
   /** Characteristics with more points are not cached (default MAX_CACHED_POINTS). */
   readonly maxCachedPoints?: number;
   /** Entries of an earlier build's cache, by key; absent: no cache is read or written. */
@@ -174,13 +182,11 @@ function summarise(
   return { reviewed, briefs, diagnostics, integrity, exitCode, summaryFile, summaryRanges: ranges, recordBytes: json(record), since };
 }
 
-/** A data file of more bytes than this (about 100,000 points) is a long series, for when the pages worker starts. */
-const LONG_SERIES_BYTES = 4 * 2 ** 20;
 
 /** Charts sent to the worker at a time while the analysis goes on: fewer messages, and satori lays out their labels together. */
 const DRAW_BATCH = 50;
 
-const hasLongSeries = (ws: Workspace) => ws.characteristics.some((c) => 'bytes' in c.data && c.data.bytes.length > LONG_SERIES_BYTES);
+
 
 export async function planPack(ws: Workspace, asOf: IsoDate, options: PackOptions = DEFAULT_OPTIONS): Promise<PlannedPack> {
   const allowed = Math.max(1, Math.floor(options.jobs ?? defaultJobs()));
@@ -209,7 +215,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   // took 0.2–0.3 s off the build (4.14–4.39 s against 4.00–4.18 s, alternately). Not where a data
   // file is long: that series' analysis is then the build's peak of memory, and the idle thread's
   // 50 MB would add to it; the worker starts after the analysis.
-  const early = allowed > 1 && !hasLongSeries(ws) ? startWorker() : undefined;
+  const early = startsPagesWorkerEarly(ws, allowed) ? (options.pagesWorker ?? startWorker()) : undefined;
   const keys = options.cache ? ws.characteristics.map((c) => cacheKey(ws, c, asOf)) : [];
   const hits = keys.map((k) => options.cache?.(k));
   const fonts = loadFonts();

@@ -159,33 +159,44 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
   checkOutDir(outDir, ws.root, [...loaded.workspace.inputs.keys()]);
   // A build killed earlier may have left --out under its side name; put it back before reading it.
   recoverInterrupted(outDir);
-  // Read the earlier pack before this build replaces it.
-  const previousDir = typeof values.previous === 'string' ? values.previous : outDir;
-  const previous = readPrevious(previousDir, typeof values.previous === 'string');
-  const previousLedger = previous ? readPreviousLedger(previousDir, previous.asOf) : undefined;
+  // The pages worker starts now, so that it has loaded its modules (0.5 s) by the time this thread
+  // has read the earlier pack and loaded its own: on a plant's rebuild this thread had waited for it.
+  const { startPagesWorker, startsPagesWorkerEarly } = await import('../pack/pages-thread.ts');
+  const pagesWorker = startsPagesWorkerEarly(ws, jobs) ? startPagesWorker() : undefined;
+  let plan: Awaited<ReturnType<typeof import('../build.ts').planPack>>;
+  let previous: ReturnType<typeof readPrevious>;
+  let folder: ReturnType<typeof openPackFolder>;
   const quiet = values.quiet === true || json;
   const progress = quiet || !io.progress ? undefined : io.progress.bind(io);
-  // The renderers are loaded only when a pack is built.
-  const { planPack } = await import('../build.ts');
-  // The pack's temporary folder, from here: summary.json is written into it as the analysis makes it.
-  const folder = openPackFolder(outDir);
-  let plan: Awaited<ReturnType<typeof planPack>>;
   try {
-    plan = await planPack(ws, asOf ?? ws.config.period.to, {
-      paper,
-      summarySink: () => fileSink(folder, 'summary.json'),
-      chartsInto: folder.temp,
-      ...(jobs !== undefined ? { jobs } : {}),
-      ...(values['no-cache'] === true ? {} : { cache: openCache(outDir), partCache: openPartCache(outDir), summaryPieces: openSummaryPieces(outDir), madeSections: openMadeSections(outDir), partTexts: openPartTexts(outDir) }),
-      png: values.png === true,
-      ...(previous ? { previous } : {}),
-      ...(previousLedger ? { previousLedger } : {}),
-      ...(audience ? { audience } : {}),
-      ...(progress ? { progress: (stage: string, done: number, total: number) => progress(`${stage} ${done}/${total}`) } : {}),
-    });
-  } catch (e) {
-    discardPackFolder(folder);
-    throw e;
+    // Read the earlier pack before this build replaces it.
+    const previousDir = typeof values.previous === 'string' ? values.previous : outDir;
+    previous = readPrevious(previousDir, typeof values.previous === 'string');
+    const previousLedger = previous ? readPreviousLedger(previousDir, previous.asOf) : undefined;
+    // The renderers are loaded only when a pack is built.
+    const { planPack } = await import('../build.ts');
+    // The pack's temporary folder, from here: summary.json is written into it as the analysis makes it.
+    folder = openPackFolder(outDir);
+    try {
+      plan = await planPack(ws, asOf ?? ws.config.period.to, {
+        paper,
+        summarySink: () => fileSink(folder, 'summary.json'),
+        chartsInto: folder.temp,
+        ...(jobs !== undefined ? { jobs } : {}),
+        ...(pagesWorker ? { pagesWorker } : {}),
+        ...(values['no-cache'] === true ? {} : { cache: openCache(outDir), partCache: openPartCache(outDir), summaryPieces: openSummaryPieces(outDir), madeSections: openMadeSections(outDir), partTexts: openPartTexts(outDir) }),
+        png: values.png === true,
+        ...(previous ? { previous } : {}),
+        ...(previousLedger ? { previousLedger } : {}),
+        ...(audience ? { audience } : {}),
+        ...(progress ? { progress: (stage: string, done: number, total: number) => progress(`${stage} ${done}/${total}`) } : {}),
+      });
+    } catch (e) {
+      discardPackFolder(folder);
+      throw e;
+    }
+  } finally {
+    pagesWorker?.stop();
   }
   progress?.('');
   const kept = memo?.keep();

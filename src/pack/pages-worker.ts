@@ -5,7 +5,8 @@
  */
 import { parentPort } from 'node:worker_threads';
 import type { Scene } from '../render/scene/types.ts';
-import { type PagesMessage, type PagesReply, type SvgFile, drawSvgFiles, loadTextWriters, writeTextPagesHere } from './text-pages.ts';
+import { type SvgFile, drawSvgFiles, loadTextWriters, writeTextPagesHere } from './text-pages.ts';
+import type { PagesMessage, PagesReply } from './pages-thread.ts';
 import { fillFile } from './write.ts';
 import { loadChartDrawing } from '../render/pool/chart-pool.ts';
 
