@@ -16,7 +16,7 @@
  */
 import { deflateSync } from 'node:zlib';
 import type { Code, Heading, List, PhrasingContent, Root, RootContent, Table } from 'mdast';
-import { rgb } from '../render/pdf-lib.ts';
+import { rgb } from '../render/pdf-color.ts';
 import { fontkit } from '../render/fontkit.ts';
 import { type PdfFaces, drawScene } from '../render/pdf-chart.ts';
 import { writeWholeFont } from '../render/pdf-font.ts';

@@ -16,7 +16,7 @@ import { pairRuns } from './pair-runs.ts';
 export type FontkitModule = typeof ns;
 export type FontkitFont = ReturnType<typeof ns.create>;
 
-// Loaded with `require`, as pdf-lib is (see pdf-lib.ts): an ESM import had Node's CommonJS lexer read the
+// Loaded with `require`: it ships CommonJS, and an ESM import had Node's CommonJS lexer read the
 // whole bundle first (256–264 ms against 146–160 ms, on the main thread and the pages worker alike).
 const raw: FontkitModule = createRequire(import.meta.url)('@pdf-lib/fontkit') as FontkitModule;
 

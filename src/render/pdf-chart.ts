@@ -10,7 +10,7 @@
  * 1,000-characteristic build. The operators go onto a sheet (pdf-ink.ts),
  * which names its fonts and graphics states the same in every document.
  */
-import { rgb } from './pdf-lib.ts';
+import { rgb } from './pdf-color.ts';
 import { type Face, type SheetInk, pdfNum as num } from './pdf-ink.ts';
 import type { Paint, Scene } from './scene/types.ts';
 

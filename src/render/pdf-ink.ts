@@ -11,7 +11,7 @@
  * Identity-H, CID = glyph number), which is what makes glyph numbers the
  * font's own.
  */
-import type { RGB } from './pdf-lib.ts';
+import type { RGB } from './pdf-color.ts';
 import { decimalText } from '../format.ts';
 import { num } from '../pack/pdf-file.ts';
 import type { FontkitFont } from './fontkit.ts';
