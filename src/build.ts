@@ -32,7 +32,6 @@ import { SUMMARY_FORMAT, buildSummary } from './summary.ts';
 import { TOOL } from './version.ts';
 import type { Workspace } from './workspace/load.ts';
 import { deserialize } from 'node:v8';
-import { createHash } from 'node:crypto';
 import path from 'node:path';
 
 export interface PlannedPack {
@@ -564,8 +563,8 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     cache.set(SECTION_INDEX, () => encodeStored(sectionsMade));
     // Where each cached characteristic's part of summary.json is, for the next build.
     const pieces = new Map(keys.flatMap((key, i) => (summaryRanges[i] && cache.has(entryPath(key)) ? [[key, summaryRanges[i]] as const] : [])));
-    const summary = summaryMade instanceof Uint8Array ? { bytes: summaryMade.length, sha1: createHash('sha1').update(summaryMade).digest('hex') } : summaryMade;
-    cache.set(SUMMARY_INDEX, (into) => encodeStored({ bytes: summary.bytes, sha1: summary.sha1, pieces, stamp: stampOf(path.join(into, 'summary.json')) } satisfies SummaryIndex));
+    const summary = listed.get('summary.json')!;
+    cache.set(SUMMARY_INDEX, (into) => encodeStored({ bytes: summary.bytes, sha256: summary.sha256, pieces, stamp: stampOf(path.join(into, 'summary.json')) } satisfies SummaryIndex));
     // Parts read unchanged are linked; new ones are written.
     partKeys.forEach((key, i) => {
       const file = partPath(key);

@@ -296,16 +296,17 @@ export const openPartCache = (packDir: string): Stored<CachedPart> => openStored
 
 /**
  * Where each characteristic's part of the pack's summary.json is (an item
- * of its `characteristics`, by cache key), with the file's size and SHA-1
- * (a check against edits, not a signature; the manifest has its SHA-256):
+ * of its `characteristics`, by cache key), with the file's size, SHA-256
+ * and stamp (a check against edits; while the stamp is the same, the file
+ * is not read through):
  * a rebuild puts an unchanged characteristic's part into the new file as
  * the bytes it finds there (a plant's summary.json is 86 MB; written afresh
  * it took 1.6 s), and uses none of them if the file is not the one indexed.
  */
 export interface SummaryIndex {
   readonly bytes: number;
-  readonly sha1: string;
-  /** The file's stamp as written: while it is the same, the file is not read through for its SHA-1 (0.15 s for a plant's). */
+  readonly sha256: string;
+  /** The file's stamp as written: while it is the same, the file is not read through for its SHA-256. */
   readonly stamp?: FileStamp | undefined;
   /** Cache key → [start, end) byte offsets. */
   readonly pieces: ReadonlyMap<string, readonly [number, number]>;
@@ -315,7 +316,7 @@ export const SUMMARY_INDEX = `${CACHE_DIR}/summary-index.v8`;
 const SUMMARY_FILE = 'summary.json';
 
 const isSummaryIndex = (v: unknown): v is SummaryIndex =>
-  typeof v === 'object' && v !== null && Number.isSafeInteger((v as SummaryIndex).bytes) && typeof (v as SummaryIndex).sha1 === 'string' && (v as SummaryIndex).pieces instanceof Map;
+  typeof v === 'object' && v !== null && Number.isSafeInteger((v as SummaryIndex).bytes) && typeof (v as SummaryIndex).sha256 === 'string' && (v as SummaryIndex).pieces instanceof Map;
 
 /**
  * A piece of summary.json, by cache key: where it is, and its bytes, read
@@ -326,7 +327,7 @@ export type SummaryPieces = (key: string) => { readonly from: FileRange; readonl
 
 /**
  * The parts of the summary.json in `packDir` that its index names, if the
- * file is the one indexed (its size and SHA-1, read through once, when a
+ * file is the one indexed (its stamp, or its size and SHA-256, read through once, when a
  * part is first asked for); none otherwise. A part is read when it is
  * written into the new file.
  */
@@ -346,7 +347,7 @@ export function openSummaryPieces(packDir: string): SummaryPieces {
   let scratch = new Uint8Array(0);
   const check = () => {
     try {
-      return sameStamp(stampOf(file), index.stamp) || (statSync(file).size === index.bytes && digestOfFile(file, 'sha1') === index.sha1);
+      return sameStamp(stampOf(file), index.stamp) || (statSync(file).size === index.bytes && digestOfFile(file, 'sha256') === index.sha256);
     } catch {
       return false;
     }
