@@ -23,7 +23,7 @@ import { chartSpec } from './render/scene/spec.ts';
 import { createTextMetrics } from './render/scene/text-metrics.ts';
 import type { Scene } from './render/scene/types.ts';
 import { defaultJobs, drawCharts } from './render/pool/chart-pool.ts';
-import { type CacheHit, type CachedPart, ENTRY_INDEX, type PageRecord, TEXT_INDEX, type TextIndex, type IndexedEntry, SECTION_INDEX, SUMMARY_INDEX, type Side, type SideKind, type Sides, type Stored, type SummaryIndex, type SummaryPieces, cacheKey, encodeEntry, encodeStored, entryPath, partKey, partPath, sectionKey, sidePath } from './pack/build-cache.ts';
+import { type CacheHit, type CachedPart, ENTRY_INDEX, type PageRecord, RECORD_STAMP, TEXT_INDEX, recordStamp, type TextIndex, type IndexedEntry, SECTION_INDEX, SUMMARY_INDEX, type Side, type SideKind, type Sides, type Stored, type SummaryIndex, type SummaryPieces, cacheKey, encodeEntry, encodeStored, entryPath, partKey, partPath, sectionKey, sidePath } from './pack/build-cache.ts';
 import { chartIdOf, chartIdsIn, hasFootnotes } from './pack/mdast.ts';
 import type { RootContent } from 'mdast';
 import { splitParts } from './pack/parts.ts';
@@ -578,6 +578,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     // written whole), with the files as written: after the pack's files, whose stamps it records.
     const record = (name: string, into: string): PageRecord => ({ bytes: listed.get(name)!.bytes, sha256: listed.get(name)!.sha256, stamp: stampOf(path.join(into, name)) });
     const textAt = new Map(textsPlaced.map((at, i) => [partKeys[i]!, at] as const));
+    cache.set(RECORD_STAMP, recordStamp);
     cache.set(TEXT_INDEX, (into) => encodeStored({ md: record('index.md', into), html: record('index.html', into), parts: textAt } satisfies TextIndex));
   }
   lap('manifest and cache');

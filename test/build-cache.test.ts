@@ -414,3 +414,30 @@ describe('review.yaml through the cache', () => {
     expect(readFileSync(path.join(out, 'index.md'), 'utf8')).toMatch(/^# A title of our own$/m);
   }, 120_000);
 });
+
+describe('the previous record, as this tool wrote it', () => {
+  const ws = path.join(temp, 'record-ws');
+  cpSync(path.join(ROOT, 'data/demo'), ws, { recursive: true });
+  const out = path.join(temp, 'record-out');
+  const earlier = path.join(temp, 'record-earlier');
+
+  it('is taken as written while its stamp is the same, and checked as untrusted input once it changed', () => {
+    expect(cli('build', ws, '--out', out, '-q').code).toBe(0);
+    cpSync(out, earlier, { recursive: true });
+    const file = path.join(ws, 'data/fill-volume.csv');
+    writeFileSync(file, readFileSync(file, 'utf8').replace(/,(\d+(\.\d+)?)\n$/, (_, v: string) => `,${(Number(v) + 0.4).toFixed(1)}\n`));
+    // Without --previous, the build compares with --out's own record.json, which it wrote: the same
+    // section as a cold build given a copy of that pack (whose record is read as untrusted input).
+    expect(cli('build', ws, '--out', out, '-q').code).toBe(0);
+    const cold = path.join(temp, 'record-cold');
+    expect(cli('build', ws, '--out', cold, '--previous', earlier, '--no-cache', '-q').code).toBe(0);
+    const md = readFileSync(path.join(out, 'index.md'), 'utf8');
+    expect(md).toContain('## Since the last review');
+    expect(md).toBe(readFileSync(path.join(cold, 'index.md'), 'utf8'));
+    // An edited record.json is not taken as written: not a record, it is left out of the comparison.
+    writeFileSync(path.join(out, 'record.json'), '{"format": 2}\n');
+    const r = cli('build', ws, '--out', out, '-q');
+    expect(r.code).toBe(0);
+    expect(readFileSync(path.join(out, 'index.md'), 'utf8')).not.toContain('## Since the last review');
+  }, 120_000);
+});

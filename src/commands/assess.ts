@@ -77,7 +77,7 @@ function readPreviousLedger(dir: string, asOf: string): PreviousLedger | undefin
  * record.json, or its summary.json when it has none (a pack built before
  * the record was written).
  */
-function readPrevious(dir: string, explicit: boolean): SummaryLike | undefined {
+function readPrevious(dir: string, explicit: boolean, asWritten = false): SummaryLike | undefined {
   const record = path.join(dir, RECORD_FILE);
   const file = existsSync(record) ? record : path.join(dir, 'summary.json');
   if (!existsSync(file)) {
@@ -95,6 +95,8 @@ function readPrevious(dir: string, explicit: boolean): SummaryLike | undefined {
     }
     throw new UsageError(`${file} is not valid JSON (${(e as Error).message}); give the folder of an earlier pack`);
   }
+  // The record this tool wrote into --out, unchanged since (recordAsWritten), is what comparisonRecord made.
+  if (asWritten && file === record) return json as SummaryLike;
   const parsed = previousSummarySchema.safeParse(json);
   if (!parsed.success) {
     if (!explicit) return undefined;
@@ -134,7 +136,7 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
   // A build's heap stays near what is live: a million-point series peaked at 1.5 GB without this (collect.ts).
   moderateHeapGrowth();
   // review.yaml's settings as the last build into --out read them, where its text is the same.
-  const { REVIEW_MEMO, openCache, openMadeSections, openPartCache, openPartTexts, openSummaryPieces, reviewMemo } = await import('../pack/build-cache.ts');
+  const { REVIEW_MEMO, openCache, openMadeSections, openPartCache, openPartTexts, openSummaryPieces, recordAsWritten, reviewMemo } = await import('../pack/build-cache.ts');
   const memo = values['no-cache'] === true ? undefined : reviewMemo(outDir);
   const loaded = loadWorkspace(dir, memo ? { readReview: memo.read } : {});
   if (!loaded.ok) {
@@ -171,7 +173,7 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
   try {
     // Read the earlier pack before this build replaces it.
     const previousDir = typeof values.previous === 'string' ? values.previous : outDir;
-    previous = readPrevious(previousDir, typeof values.previous === 'string');
+    previous = readPrevious(previousDir, typeof values.previous === 'string', previousDir === outDir && values['no-cache'] !== true && recordAsWritten(outDir));
     const previousLedger = previous ? readPreviousLedger(previousDir, previous.asOf) : undefined;
     // The renderers are loaded only when a pack is built.
     const { planPack } = await import('../build.ts');
