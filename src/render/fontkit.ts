@@ -28,6 +28,16 @@ const MAX_LAYOUTS = 200_000;
 
 type Run = ReturnType<FontkitFont['layout']>;
 
+/** The remembered word layout of each font made here (`font.layout` of a line is its words' joined). */
+const wordLayouts = new WeakMap<FontkitFont, (word: string) => Run>();
+
+/**
+ * The word layouts `font.layout` joins, if it is a font made here: a line's
+ * layout is its words' with the space's between, so a caller may walk its
+ * words instead of asking for the joined run.
+ */
+export const wordLayoutOf = (font: FontkitFont): ((word: string) => Run) | undefined => wordLayouts.get(font);
+
 function rememberLayouts(font: FontkitFont): FontkitFont {
   const shape = font.layout.bind(font) as (text: string, ...rest: unknown[]) => Run;
   // Figures, most of the words and nearly all seen once, are laid out from their pairs (pair-runs.ts).
@@ -42,6 +52,7 @@ function rememberLayouts(font: FontkitFont): FontkitFont {
     }
     return run;
   };
+  wordLayouts.set(font, word);
   font.layout = ((text: string, ...rest: unknown[]) => {
     if (rest.some((r) => r !== undefined)) return shape(text, ...rest);
     if (!text.includes(' ') || text === ' ') return word(text);

@@ -14,7 +14,7 @@
 import type { RGB } from './pdf-color.ts';
 import { decimalText } from '../format.ts';
 import { num } from '../pack/pdf-file.ts';
-import type { FontkitFont } from './fontkit.ts';
+import { type FontkitFont, wordLayoutOf } from './fontkit.ts';
 import { cmapText } from './pdf-font.ts';
 
 /** A number for a content stream: at most three decimals, no exponent, no "-0". */
@@ -112,11 +112,51 @@ export function glyphHex(font: FontkitFont, text: string, repeats = false): Enco
  * the layout's glyph advances, in thousandths of the size).
  */
 export function textWidth(font: FontkitFont, text: string, size: number): number {
+  const fast = wordsWidth(font, text);
+  if (fast !== undefined) return fast * (size / 1000);
   const glyphs = shape(font, text).run.glyphs;
   const scale = 1000 / font.unitsPerEm;
   let total = 0;
   for (let i = 0; i < glyphs.length; i++) total += glyphs[i]!.advanceWidth * scale;
   return total * (size / 1000);
+}
+
+/** Each word's glyph advances in thousandths of the em, in order; null where the font draws .notdef (shape's other layout then). */
+const MAX_WORDS = 200_000;
+const wordAdvances = new WeakMap<FontkitFont, Map<string, Float64Array | null>>();
+
+/**
+ * textWidth's sum without the joined run, for a font whose layout of a line
+ * is its words' runs with the space's between (fontkit.ts): the same
+ * advances added in the same order, so the same number. A plant's footers
+ * ("Page 12 of 2194", each new) took 0.1 s to lay out joined.
+ */
+function wordsWidth(font: FontkitFont, text: string): number | undefined {
+  const word = wordLayoutOf(font);
+  if (!word) return undefined;
+  let known = wordAdvances.get(font);
+  if (!known || known.size >= MAX_WORDS) wordAdvances.set(font, (known = new Map()));
+  const scale = 1000 / font.unitsPerEm;
+  let total = 0;
+  const add = (w: string) => {
+    let a = known.get(w);
+    if (a === undefined) {
+      const glyphs = word(w).glyphs;
+      a = glyphs.some((g) => g.id === 0) ? null : Float64Array.from(glyphs, (g) => g.advanceWidth * scale);
+      known.set(w, a);
+    }
+    if (a === null) return false;
+    for (let i = 0; i < a.length; i++) total += a[i]!;
+    return true;
+  };
+  // As fontkit.ts's layout joins a line: a text without a space (or a lone space) is one word.
+  if (!text.includes(' ') || text === ' ') return add(text) ? total : undefined;
+  const parts = text.split(' ');
+  for (let i = 0; i < parts.length; i++) {
+    if (i > 0 && !add(' ')) return undefined;
+    if (parts[i] !== '' && !add(parts[i]!)) return undefined;
+  }
+  return total;
 }
 
 /** The graphics-state resource name of fill and stroke opacity `o` (its value, so every page names it alike). */
