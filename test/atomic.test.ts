@@ -10,7 +10,7 @@ import { appendFileSync, cpSync, existsSync, mkdirSync, mkdtempSync, readFileSyn
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { discardPackFolder, fileSink, fillFile, openPackFolder } from '../src/pack/write.ts';
+import { discardPackFolder, fileSink, fillFile, openPackFolder, writePack } from '../src/pack/write.ts';
 import { BIN, ROOT, cli, hashTree } from './helpers/cli.ts';
 
 const temp = mkdtempSync(path.join(tmpdir(), 'plumbline-atomic-'));
@@ -135,5 +135,44 @@ describe('the pack folder a build opens before it plans', () => {
     writeFileSync(source, earlier.subarray(0, 1000));
     expect(() => fillFile(unfilled.fill)).toThrow(/changed during the build/);
     discardPackFolder(folder);
+  });
+});
+
+describe('the build cache taken over from --out', () => {
+  const dir = mkdtempSync(path.join(tmpdir(), 'plumbline-takeover-'));
+  afterAll(() => rmSync(dir, { recursive: true, force: true }));
+  const out = path.join(dir, 'out');
+  const cacheFile = (name: string) => path.join(out, 'cache', name);
+  const pack = () => {
+    const folder = openPackFolder(out);
+    return folder;
+  };
+
+  it('keeps the kept files, writes the rest and removes what the new build does not list', () => {
+    mkdirSync(path.join(out, 'cache'), { recursive: true });
+    writeFileSync(path.join(out, 'manifest.json'), '{}');
+    writeFileSync(cacheFile('kept'), 'kept bytes');
+    writeFileSync(cacheFile('stale'), 'no longer listed');
+    const extra = new Map<string, (into: string) => Uint8Array>([
+      ['cache/kept', () => { throw new Error('a kept file is not made again'); }],
+      ['cache/new', () => new TextEncoder().encode('made here')],
+    ]);
+    writePack(pack(), new Map([['manifest.json', new TextEncoder().encode('{"v":2}')]]), extra, new Set(['cache/kept']), new Map(), 'cache');
+    expect(readdirSync(path.join(out, 'cache')).sort()).toEqual(['kept', 'new']);
+    expect(readFileSync(cacheFile('kept'), 'utf8')).toBe('kept bytes');
+    expect(readFileSync(cacheFile('new'), 'utf8')).toBe('made here');
+    expect(readFileSync(path.join(out, 'manifest.json'), 'utf8')).toBe('{"v":2}');
+    expect(readdirSync(dir)).toEqual(['out']);
+  });
+
+  it('puts the cache back into --out when the new pack cannot be written', () => {
+    const before = hashTree(out);
+    const extra = new Map<string, (into: string) => Uint8Array>([
+      ['cache/kept', () => new Uint8Array()],
+      ['cache/broken', () => { throw new Error('cannot be made'); }],
+    ]);
+    expect(() => writePack(pack(), new Map([['manifest.json', new Uint8Array([123, 125])]]), extra, new Set(['cache/kept']), new Map(), 'cache')).toThrow('cannot be made');
+    expect(hashTree(out)).toEqual(before);
+    expect(readdirSync(dir)).toEqual(['out']);
   });
 });

@@ -136,7 +136,7 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
   // A build's heap stays near what is live: a million-point series peaked at 1.5 GB without this (collect.ts).
   moderateHeapGrowth();
   // review.yaml's settings as the last build into --out read them, where its text is the same.
-  const { REVIEW_MEMO, openCache, openMadeSections, openPartCache, openPartTexts, openSummaryPieces, recordAsWritten, reviewMemo } = await import('../pack/build-cache.ts');
+  const { CACHE_DIR, REVIEW_MEMO, openCache, openMadeSections, openPartCache, openPartTexts, openSummaryPieces, recordAsWritten, reviewMemo } = await import('../pack/build-cache.ts');
   const memo = values['no-cache'] === true ? undefined : reviewMemo(outDir);
   const loaded = loadWorkspace(dir, memo ? { readReview: memo.read } : {});
   if (!loaded.ok) {
@@ -203,7 +203,7 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
   progress?.('');
   const kept = memo?.keep();
   const cache = kept ? new Map([...plan.cache, [REVIEW_MEMO, () => kept.bytes]]) : plan.cache;
-  writePack(folder, plan.files, cache, kept?.unchanged ? new Set([...plan.cacheKept, REVIEW_MEMO]) : plan.cacheKept, plan.copies);
+  writePack(folder, plan.files, cache, kept?.unchanged ? new Set([...plan.cacheKept, REVIEW_MEMO]) : plan.cacheKept, plan.copies, CACHE_DIR);
   if (json) return io.out(resultJson('build', dir, plan.exitCode, plan.diagnostics, plan.briefs, { out: outDir, files: [...plan.files.keys(), ...plan.placed.keys(), ...plan.copies.keys()].sort(), comparedWith: previous?.asOf ?? null, cache: values['no-cache'] === true ? null : plan.cacheUse })), plan.exitCode;
   printDiagnostics(io, plan.diagnostics, quiet);
   const counts = new Map<string, number>();

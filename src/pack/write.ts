@@ -335,19 +335,26 @@ export function fillFile(job: FillJob): SunkFile {
  * cache). Those named in `kept` hold the same bytes as the file of that name
  * in the current --out, and are hard-linked from it where the file system
  * allows (a plant's cache is hundreds of megabytes, nearly all unchanged
- * after one data file changes); anywhere else they are written, each made
+ * after one data file changes), or, where `takeOver` names their folder,
+ * that folder is moved from --out whole and only what changed is written
+ * or removed in it; anywhere else they are written, each made
  * when it is written, after the pack's files, and given the folder they
  * are written into. On any failure the folder is removed and --out left as
  * it was.
  */
+/** The suffix of a file of a taken-over folder written beside the one it replaces (see writePack). */
+const REPLACING = '.replacing';
+
 export function writePack(
   folder: PackFolder,
   files: ReadonlyMap<string, Uint8Array>,
   extra: ReadonlyMap<string, (into: string) => Uint8Array> = new Map(),
   kept: ReadonlySet<string> = new Set(),
   copies: ReadonlyMap<string, { readonly from: string; readonly unchanged?: unknown }> = new Map(),
+  takeOver?: string,
 ): void {
   const { out, temp, old } = folder;
+  let taken: string | undefined;
   try {
     const folderFor = folderMaker();
     const put = (name: string, bytes: Uint8Array) => {
@@ -378,12 +385,50 @@ export function writePack(
       folderFor(target);
       copyFileSync(path.join(out, from), target, constants.COPYFILE_FICLONE);
     }
-    for (const [name, make] of extra) if (!(kept.has(name) && linked(name))) put(name, make(temp));
+    // `takeOver`, the folder of `extra` (the build cache), is moved from --out whole when it holds
+    // files kept: its kept files are then in place, the rest is written or removed. A plant's 4,000
+    // cache files took 0.15 s to link one by one and 0.1 s to remove with the previous pack.
+    if (takeOver !== undefined && kept.size > 0 && existsSync(path.join(out, takeOver)) && !existsSync(path.join(temp, takeOver))) {
+      renameSync(path.join(out, takeOver), path.join(temp, takeOver));
+      taken = takeOver;
+      const present = new Set<string>();
+      const stale: string[] = [];
+      for (const entry of readdirSync(path.join(temp, takeOver), { recursive: true, withFileTypes: true })) {
+        if (!entry.isFile()) continue;
+        const rel = path.relative(temp, path.join(entry.parentPath, entry.name));
+        if (extra.has(rel)) present.add(rel);
+        else stale.push(rel);
+      }
+      // Every file is made before any of the earlier ones is replaced or removed: should one fail, the
+      // folder goes back to --out as it was, with at most new files the next build removes.
+      const replaced: string[] = [];
+      for (const [name, make] of extra) {
+        if (kept.has(name) && present.has(name)) continue;
+        if (!present.has(name)) put(name, make(temp));
+        else {
+          put(`${name}${REPLACING}`, make(temp));
+          replaced.push(name);
+        }
+      }
+      for (const name of replaced) renameSync(path.join(temp, `${name}${REPLACING}`), path.join(temp, name));
+      for (const name of stale) rmSync(path.join(temp, name));
+    } else {
+      for (const [name, make] of extra) if (!(kept.has(name) && linked(name))) put(name, make(temp));
+    }
     const hadOld = existsSync(out);
     if (hadOld) renameSync(out, old);
     renameSync(temp, out);
     if (hadOld) rmSync(old, { recursive: true, force: true });
   } catch (e) {
+    // The cache moved from --out goes back where the previous pack still is (not part of the pack: a
+    // failure here costs the next build its cache at worst).
+    if (taken !== undefined && existsSync(out) && !existsSync(path.join(out, taken))) {
+      try {
+        renameSync(path.join(temp, taken), path.join(out, taken));
+      } catch {
+        // Removed with the temporary folder.
+      }
+    }
     discardPackFolder(folder);
     throw e;
   }
