@@ -15,9 +15,8 @@ import { MarkedJson, WrittenJson, jsonBytes, jsonChunks } from './pack/json-byte
 import { type FileSink, type FileStamp, type SunkFile, type UnfilledFile, fillFile, stampOf } from './pack/write.ts';
 import { type KnownText, type PagePart, type SvgJob, type TextPagesInput, writeTextPagesHere } from './pack/text-pages.ts';
 import { type PagesWorker, startPagesWorker, startsPagesWorkerEarly } from './pack/pages-thread.ts';
-import { type LaidOutPart, type Paper, toPdf } from './pack/pdf.ts';
+import { type Paper, toPdf } from './pack/pdf.ts';
 import { loadFonts } from './render/fonts.ts';
-import { svgToPng } from './render/png.ts';
 import { layoutChart } from './render/scene/layout.ts';
 import { chartSpec } from './render/scene/spec.ts';
 import { createTextMetrics } from './render/scene/text-metrics.ts';
@@ -376,10 +375,12 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   const sectionAt = new Map(pack.sections.map((nodes, i) => [nodes[0]!, i] as const));
   const chartIdsOf = (nodes: readonly RootContent[]) => nodes.flatMap((n) => chartIdOf(n) ?? []);
   const digests: (string | undefined)[] = [];
+  /** The cached part of part `p`, where it is a made section. */
+  const madeAt = (p: number) => (madeOf(parts[p]![0]!) ? madeParts.get(sectionAt.get(parts[p]![0]!)!) : undefined);
   const partKeys = options.cache
     ? parts.map((nodes, p) => {
-        const i = madeOf(nodes[0]!) ? sectionAt.get(nodes[0]!) : undefined;
-        if (i !== undefined) return madeParts.get(i)!.key;
+        const known = madeAt(p);
+        if (known) return known.key;
         const digest = (digests[p] = nodesDigest(nodes));
         return partKey(digest, chartKeysOf(chartIdsOf(nodes)), options.paper);
       })
@@ -399,7 +400,6 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
       }
     });
   }
-  const madeAt = (p: number) => (madeOf(parts[p]![0]!) ? madeParts.get(sectionAt.get(parts[p]![0]!)!) : undefined);
   const partHits = partKeys.map((key, p) => madeAt(p)?.hit ?? options.partCache?.(key));
   const partTexts = partKeys.map((key, p) => madeAt(p)?.text ?? options.partTexts?.(key));
   // Markdown and HTML on the other thread, while this one lays out the PDF. With the cache, a tree

@@ -100,7 +100,7 @@ export function writeWholeFont(file: PdfFile, bytes: Uint8Array, font: FontkitFo
   const scale = 1000 / font.unitsPerEm;
   const fontName = name(font.postscriptName || 'Font');
   const program = pdfFontProgram(bytes);
-  const program2 = file.stream({ Filter: '/FlateDecode', Length1: String(program.length) }, deflateSync(program));
+  const programFile = file.stream({ Filter: '/FlateDecode', Length1: String(program.length) }, deflateSync(program));
   const { minX, minY, maxX, maxY } = font.bbox;
   const descriptor = file.add(
     dict({
@@ -115,7 +115,7 @@ export function writeWholeFont(file: PdfFile, bytes: Uint8Array, font: FontkitFo
       CapHeight: num((font.capHeight || font.ascent) * scale),
       XHeight: num((font.xHeight || 0) * scale),
       StemV: '0',
-      FontFile2: ref(program2),
+      FontFile2: ref(programFile),
     }),
   );
   const widths = Array.from({ length: font.numGlyphs }, (_, id) => num(Math.round(font.getGlyph(id).advanceWidth * scale * 1000) / 1000));
