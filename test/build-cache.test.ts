@@ -23,6 +23,15 @@ const packOnly = (dir: string) => Object.fromEntries(Object.entries(hashTree(dir
 const cacheKeys = (dir: string) => readdirSync(path.join(dir, CACHE)).filter((f) => /^[0-9a-f]{64}\.v8$/.test(f)).sort();
 const sideFiles = (dir: string) => readdirSync(path.join(dir, CACHE)).filter((f) => /^[0-9a-f]{64}\.(svg|png|scene)$/.test(f)).sort();
 const partKeys = (dir: string) => readdirSync(path.join(dir, CACHE)).filter((f) => f.startsWith('part-')).sort();
+/** Corrects the last reading of the workspace's fill-volume data by `delta`: a real change to one data file. */
+function correctLastReading(ws: string, delta: number): void {
+  const file = path.join(ws, 'data/fill-volume.csv');
+  const rows = readFileSync(file, 'utf8').trimEnd().split('\n');
+  const [date, value] = rows.at(-1)!.split(',');
+  rows[rows.length - 1] = `${date},${(Number(value) + delta).toFixed(1)}`;
+  writeFileSync(file, `${rows.join('\n')}\n`);
+}
+
 const json = (r: { out: string }) => JSON.parse(r.out) as { exitCode: number; cache: { reused: number; redone: number } | null };
 
 describe('the build cache', () => {
@@ -43,11 +52,7 @@ describe('the build cache', () => {
     expect(again.cache).toEqual({ reused: 19, redone: 0 });
 
     // One reading of one characteristic corrected.
-    const file = path.join(ws, 'data/fill-volume.csv');
-    const rows = readFileSync(file, 'utf8').trimEnd().split('\n');
-    const [date, value] = rows.at(-1)!.split(',');
-    rows[rows.length - 1] = `${date},${(Number(value) + 0.4).toFixed(1)}`;
-    writeFileSync(file, `${rows.join('\n')}\n`);
+    correctLastReading(ws, 0.4);
     const entryFile = (k: string) => path.join(out, CACHE, k);
     const inodes = new Map(keysBefore.map((k) => [k, statSync(entryFile(k)).ino]));
     const sideInodes = new Map(sideFiles(out).map((f) => [f, statSync(entryFile(f)).ino]));
@@ -190,11 +195,7 @@ describe('the build cache', () => {
     expect(json(cli('build', noted, '--out', warmOut, '--json')).cache).toEqual({ reused: 0, redone: 19 });
     const earlier = path.join(temp, 'noted-earlier');
     cpSync(warmOut, earlier, { recursive: true });
-    const file = path.join(noted, 'data/fill-volume.csv');
-    const rows = readFileSync(file, 'utf8').trimEnd().split('\n');
-    const [date, value] = rows.at(-1)!.split(',');
-    rows[rows.length - 1] = `${date},${(Number(value) - 0.3).toFixed(1)}`;
-    writeFileSync(file, `${rows.join('\n')}\n`);
+    correctLastReading(noted, -0.3);
     expect(json(cli('build', noted, '--out', warmOut, '--previous', earlier, '--json')).cache).toEqual({ reused: 18, redone: 1 });
     const coldOut = path.join(temp, 'noted-cold');
     expect(cli('build', noted, '--out', coldOut, '--previous', earlier, '--no-cache', '-q').code).toBe(0);
@@ -351,8 +352,7 @@ describe('made sections', () => {
 
   it('a rebuild reads back no unchanged characteristic\'s assessment, and writes what a cold build writes', async () => {
     expect(json(cli('build', ws, '--out', out, '--json')).cache).toEqual({ reused: 0, redone: 19 });
-    const file = path.join(ws, 'data/fill-volume.csv');
-    writeFileSync(file, readFileSync(file, 'utf8').replace(/,(\d+(\.\d+)?)\n$/, (_, v: string) => `,${(Number(v) + 0.4).toFixed(1)}\n`));
+    correctLastReading(ws, 0.4);
     const { warm, read } = await plans();
     expect(warm.cacheUse).toEqual({ reused: 18, redone: 1 });
     expect(read).toEqual([]);
@@ -424,8 +424,7 @@ describe('the previous record, as this tool wrote it', () => {
   it('is taken as written while its stamp is the same, and checked as untrusted input once it changed', () => {
     expect(cli('build', ws, '--out', out, '-q').code).toBe(0);
     cpSync(out, earlier, { recursive: true });
-    const file = path.join(ws, 'data/fill-volume.csv');
-    writeFileSync(file, readFileSync(file, 'utf8').replace(/,(\d+(\.\d+)?)\n$/, (_, v: string) => `,${(Number(v) + 0.4).toFixed(1)}\n`));
+    correctLastReading(ws, 0.4);
     // Without --previous, the build compares with --out's own record.json, which it wrote: the same
     // section as a cold build given a copy of that pack (whose record is read as untrusted input).
     expect(cli('build', ws, '--out', out, '-q').code).toBe(0);

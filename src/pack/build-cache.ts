@@ -23,7 +23,7 @@ import type { Template } from './template.ts';
 import type { IsoDate } from '../model.ts';
 import type { LaidOutPart, Paper } from './pdf.ts';
 import type { KnownText, PlacedText } from './text-pages.ts';
-import { type FileRange, type FileStamp, readExactly, sameStamp, stampOf } from './write.ts';
+import { type FileRange, type FileStamp, readRange, sameStamp, stampOf } from './write.ts';
 import { TOOL } from '../version.ts';
 import type { CharacteristicInput, Workspace } from '../workspace/load.ts';
 import type { ReviewConfig } from '../model.ts';
@@ -180,14 +180,19 @@ const isIndexed = (e: unknown): e is IndexedEntry =>
 /** The cache's index of characteristics (IndexedEntry, by cache key), written by each build after their entries. */
 export const ENTRY_INDEX = `${CACHE_DIR}/entries.v8`;
 
+/** What a file of the cache holds (`file`, relative to `packDir`); undefined if it is missing or cannot be read back. */
+function readStoredFile(packDir: string, file: string): unknown {
+  try {
+    return deserialize(readFileSync(path.join(packDir, file)));
+  } catch {
+    return undefined;
+  }
+}
+
 /** Reads a map the cache keeps in one file; an empty one if the file is missing or not such a map. */
 function readIndex(packDir: string, file: string): ReadonlyMap<string, unknown> {
-  try {
-    const index: unknown = deserialize(readFileSync(path.join(packDir, file)));
-    return index instanceof Map ? index : new Map();
-  } catch {
-    return new Map();
-  }
+  const index = readStoredFile(packDir, file);
+  return index instanceof Map ? index : new Map();
 }
 
 const sizeOf = (file: string): number | undefined => {
@@ -239,12 +244,8 @@ export function openCache(packDir: string): (key: string) => CacheHit | undefine
       side,
       assessment: () => {
         if (assessment === null) {
-          try {
-            const value: unknown = deserialize(readFileSync(path.join(packDir, at)));
-            assessment = typeof value === 'object' && value !== null && 'status' in value && 'characteristic' in value ? (value as Assessment) : undefined;
-          } catch {
-            assessment = undefined;
-          }
+          const value = readStoredFile(packDir, at);
+          assessment = typeof value === 'object' && value !== null && 'status' in value && 'characteristic' in value ? (value as Assessment) : undefined;
         }
         return assessment;
       },
@@ -348,12 +349,7 @@ export type SummaryPieces = (key: string) => { readonly from: FileRange; readonl
  */
 export function openSummaryPieces(packDir: string): SummaryPieces {
   const none: SummaryPieces = () => undefined;
-  let index: unknown;
-  try {
-    index = deserialize(readFileSync(path.join(packDir, SUMMARY_INDEX)));
-  } catch {
-    return none;
-  }
+  const index = readStoredFile(packDir, SUMMARY_INDEX);
   if (!isSummaryIndex(index) || index.pieces.size === 0) return none;
   const file = path.join(packDir, SUMMARY_FILE);
   // Checked when a part is first asked for: a build that asks for none (a long series, which the
@@ -377,7 +373,7 @@ export function openSummaryPieces(packDir: string): SummaryPieces {
         const length = range[1] - range[0];
         // One buffer for every piece: a fresh one each time took 80–200 ms more for a plant's 86 MB (its pages are new).
         if (scratch.length < length) scratch = new Uint8Array(Math.max(length, scratch.length * 2));
-        return readRange(file, range[0], scratch.subarray(0, length));
+        return readRange({ file, start: range[0], end: range[1] }, scratch.subarray(0, length));
       },
     };
   };
@@ -395,16 +391,6 @@ function digestOfFile(file: string, algorithm: string): string {
   return h.digest('hex');
 }
 
-/** Fills `out` with the bytes of `file` from `start` on. */
-function readRange(file: string, start: number, out: Uint8Array): Uint8Array {
-  const fd = openSync(file, 'r');
-  try {
-    readExactly(fd, file, out, start);
-  } finally {
-    closeSync(fd);
-  }
-  return out;
-}
 
 /** review.yaml's settings as the last build read them, with the key of the text they were read from. */
 export const REVIEW_MEMO = `${CACHE_DIR}/review.v8`;
@@ -475,12 +461,7 @@ const isPageRecord = (r: unknown): r is PageRecord => typeof r === 'object' && r
  * first asked for).
  */
 export function openPartTexts(packDir: string): (key: string) => KnownText | undefined {
-  let index: unknown;
-  try {
-    index = deserialize(readFileSync(path.join(packDir, TEXT_INDEX)));
-  } catch {
-    return () => undefined;
-  }
+  const index = readStoredFile(packDir, TEXT_INDEX);
   const i = index as TextIndex;
   if (typeof index !== 'object' || index === null || !isPageRecord(i.md) || !isPageRecord(i.html) || !(i.parts instanceof Map)) return () => undefined;
   const md = path.join(packDir, 'index.md');
@@ -514,10 +495,6 @@ export const recordStamp = (into: string): Uint8Array => encodeStored({ format: 
  * plant's rebuild, for a 2.2 MB file).
  */
 export function recordAsWritten(packDir: string): boolean {
-  try {
-    const v = deserialize(readFileSync(path.join(packDir, RECORD_STAMP))) as { format?: unknown; tool?: { name?: unknown; version?: unknown }; stamp?: unknown };
-    return v.format === FORMAT && v.tool?.name === TOOL.name && v.tool?.version === TOOL.version && sameStamp(stampOf(path.join(packDir, 'record.json')), v.stamp);
-  } catch {
-    return false;
-  }
+  const v = readStoredFile(packDir, RECORD_STAMP) as { format?: unknown; tool?: { name?: unknown; version?: unknown }; stamp?: unknown } | undefined;
+  return v?.format === FORMAT && v.tool?.name === TOOL.name && v.tool?.version === TOOL.version && sameStamp(stampOf(path.join(packDir, 'record.json')), v.stamp);
 }

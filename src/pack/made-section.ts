@@ -34,10 +34,10 @@ export interface MadeSection {
   readonly diagnostics: readonly Diagnostic[];
 }
 
-export const SECTION_NODE = 'plumblineMadeSection';
+const SECTION_NODE = 'plumblineMadeSection';
 
 /** The tree's node for a made section: a part of its own, which no writer lays out again. */
-export interface SectionNode extends Node {
+interface SectionNode extends Node {
   readonly type: typeof SECTION_NODE;
   readonly made: MadeSection;
 }

@@ -178,8 +178,7 @@ export function copyingSink(file: string): ByteSink & { close(): { readonly byte
   mkdirSync(path.dirname(file), { recursive: true });
   const fd = openSync(file, 'w');
   const hash = createHash('sha256');
-  const sources = new Map<string, number>();
-  let buffer = new Uint8Array(1 << 16);
+  const ranges = rangeReader(1 << 16);
   let length = 0;
   const write = (bytes: Uint8Array) => {
     writeExactly(fd, bytes, length);
@@ -188,19 +187,13 @@ export function copyingSink(file: string): ByteSink & { close(): { readonly byte
   };
   const closeAll = () => {
     closeSync(fd);
-    for (const source of sources.values()) closeSync(source);
+    ranges.close();
   };
   return {
     write,
     copy(from) {
       try {
-        let source = sources.get(from.file);
-        if (source === undefined) sources.set(from.file, (source = openSync(from.file, 'r')));
-        const n = from.end - from.start;
-        if (buffer.length < n) buffer = new Uint8Array(Math.max(n, buffer.length * 2));
-        const bytes = buffer.subarray(0, n);
-        readExactly(source, from.file, bytes, from.start);
-        write(bytes);
+        write(ranges.read(from));
       } catch (e) {
         closeAll();
         throw e;
@@ -216,16 +209,39 @@ export function copyingSink(file: string): ByteSink & { close(): { readonly byte
   };
 }
 
-/** Bytes `from.start` to `from.end` of `from.file`, read at once. */
-export function readRange(from: FileRange): Uint8Array {
+/** Bytes `from.start` to `from.end` of `from.file`, read at once (into `out`, if given: its length is the range's). */
+export function readRange(from: FileRange, out: Uint8Array = new Uint8Array(from.end - from.start)): Uint8Array {
   const fd = openSync(from.file, 'r');
   try {
-    const out = new Uint8Array(from.end - from.start);
     readExactly(fd, from.file, out, from.start);
     return out;
   } finally {
     closeSync(fd);
   }
+}
+
+/**
+ * Reads ranges of files, each file opened once, into one buffer that grows
+ * as needed (`room`): what `read` gives is valid until the next read.
+ * `close` closes the files.
+ */
+function rangeReader(size: number) {
+  const sources = new Map<string, number>();
+  let buffer = new Uint8Array(size);
+  const room = (n: number) => (buffer.length < n ? (buffer = new Uint8Array(Math.max(n, buffer.length * 2))) : buffer).subarray(0, n);
+  return {
+    room,
+    read(from: FileRange): Uint8Array {
+      let source = sources.get(from.file);
+      if (source === undefined) sources.set(from.file, (source = openSync(from.file, 'r')));
+      const bytes = room(from.end - from.start);
+      readExactly(source, from.file, bytes, from.start);
+      return bytes;
+    },
+    close() {
+      for (const source of sources.values()) closeSync(source);
+    },
+  };
 }
 
 /**
@@ -292,14 +308,12 @@ export function folderMaker(): (file: string) => void {
 export function fillFile(job: FillJob): SunkFile {
   const hash = createHash('sha256');
   const fd = openSync(job.file, 'r+');
-  const sources = new Map<string, number>();
-  let buffer = new Uint8Array(1 << 20);
-  const room = (n: number) => (buffer.length < n ? (buffer = new Uint8Array(Math.max(n, buffer.length * 2))) : buffer).subarray(0, n);
+  const ranges = rangeReader(1 << 20);
   const hashed = (bytes: Uint8Array) => hash.update(bytes);
   // What the sink wrote between `start` and `end`, read back in turns.
   const hashWritten = (start: number, end: number) => {
     for (let at = start; at < end; ) {
-      const chunk = room(Math.min(1 << 20, end - at));
+      const chunk = ranges.room(Math.min(1 << 20, end - at));
       readExactly(fd, job.file, chunk, at);
       hashed(chunk);
       at += chunk.length;
@@ -309,10 +323,7 @@ export function fillFile(job: FillJob): SunkFile {
     let at = 0;
     for (const hole of job.holes) {
       hashWritten(at, hole.at);
-      let source = sources.get(hole.from.file);
-      if (source === undefined) sources.set(hole.from.file, (source = openSync(hole.from.file, 'r')));
-      const bytes = room(hole.from.end - hole.from.start);
-      readExactly(source, hole.from.file, bytes, hole.from.start);
+      const bytes = ranges.read(hole.from);
       writeExactly(fd, bytes, hole.at);
       hashed(bytes);
       at = hole.at + bytes.length;
@@ -320,7 +331,7 @@ export function fillFile(job: FillJob): SunkFile {
     hashWritten(at, job.bytes);
   } finally {
     closeSync(fd);
-    for (const source of sources.values()) closeSync(source);
+    ranges.close();
   }
   return { bytes: job.bytes, sha256: hash.digest('hex') };
 }
