@@ -12,7 +12,7 @@ import { type PackItem, type PackTree, buildPackTree, madeHeadings } from './pac
 import type { Brief } from './pack/brief.ts';
 import { type MadeSection, madeOf, nodesDigest } from './pack/made-section.ts';
 import { MarkedJson, WrittenJson, jsonBytes, jsonChunks } from './pack/json-bytes.ts';
-import { type FileSink, type FileStamp, type SunkFile, type UnfilledFile, fillFile, stampOf } from './pack/write.ts';
+import { type FileSink, type FileStamp, type SunkFile, type UnfilledFile, fillFile, stampOf, writePieces } from './pack/write.ts';
 import { type KnownText, type PagePart, type SvgJob, type TextPagesInput, writeTextPagesHere } from './pack/text-pages.ts';
 import { type PagesWorker, startPagesWorker, startsPagesWorkerEarly } from './pack/pages-thread.ts';
 import { type Paper, toPdf } from './pack/pdf.ts';
@@ -83,7 +83,8 @@ export interface PackOptions {
    * The pack's temporary folder, where the pages worker writes each
    * standalone SVG (and the cache's copy) as soon as it draws it: a
    * plant's 66 MB of charts, written twice and hashed, had been the main
-   * thread's at the end of the build. The plan lists them under `placed`.
+   * thread's at the end of the build. The plan lists them under `placed`,
+   * and pack.pdf, written there by this thread, too.
    */
   readonly chartsInto?: string;
   /**
@@ -446,7 +447,9 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     producer: `${TOOL.name} ${TOOL.version}`,
     reuse: (i) => partHits[i]?.value.pdf,
   });
-  files.set('pack.pdf', pdf.bytes);
+  // Into the pack's folder as the pieces it was gathered in, where the build writes there; else joined.
+  const pdfPlaced = options.chartsInto !== undefined ? writePieces(path.join(options.chartsInto, 'pack.pdf'), pdf.pieces) : undefined;
+  if (!pdfPlaced) files.set('pack.pdf', Buffer.concat(pdf.pieces));
   lap('pdf');
   const { md, html, charts: drawnWithPages, placed: textsPlaced } = await textPages;
   /** index.md and index.html as the worker wrote them into the pack's folder (`into`), with their size and SHA-256. */
@@ -479,6 +482,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     if (options.png && d.png) files.set(pngFile(id), d.png);
   }
   const placed = new Map<string, { readonly bytes: number; readonly sha256: string }>([...pages, ...[...placedCharts].map(([id, f]) => [chartFile(id), f] as const)]);
+  if (pdfPlaced) placed.set('pack.pdf', pdfPlaced);
   const summaryMade = await summaryDone;
   if (summaryMade instanceof Uint8Array) files.set('summary.json', summaryMade);
   else placed.set('summary.json', { bytes: summaryMade.bytes, sha256: summaryMade.sha256 });

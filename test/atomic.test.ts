@@ -10,7 +10,7 @@ import { appendFileSync, cpSync, existsSync, mkdirSync, mkdtempSync, readFileSyn
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { discardPackFolder, fileSink, fillFile, openPackFolder, writePack } from '../src/pack/write.ts';
+import { discardPackFolder, fileSink, fillFile, openPackFolder, writePack, writePieces } from '../src/pack/write.ts';
 import { BIN, ROOT, cli, hashTree } from './helpers/cli.ts';
 
 const temp = mkdtempSync(path.join(tmpdir(), 'plumbline-atomic-'));
@@ -135,6 +135,22 @@ describe('the pack folder a build opens before it plans', () => {
     writeFileSync(source, earlier.subarray(0, 1000));
     expect(() => fillFile(unfilled.fill)).toThrow(/changed during the build/);
     discardPackFolder(folder);
+  });
+});
+
+describe('a file written in pieces (pack.pdf)', () => {
+  it('is the pieces joined, with their size and SHA-256, past the 1,024 buffers of one system call', () => {
+    // 2,500 pieces of 0 to 4,999 bytes: three writes of up to 1,024 buffers, empty ones among them.
+    const pieces = Array.from({ length: 2500 }, (_, i) => Buffer.alloc((i * 7919) % 5000, i % 251));
+    const file = path.join(temp, 'pieces', 'deep', 'pack.pdf');
+    const written = writePieces(file, pieces);
+    // The expected file joined here; its hash from Node's crypto module (a reference outside this project).
+    const expected = Buffer.concat(pieces);
+    expect(written).toEqual({ bytes: expected.length, sha256: createHash('sha256').update(expected).digest('hex') });
+    expect(readFileSync(file).equals(expected)).toBe(true);
+    // Written again, shorter: the file is replaced, not overwritten in place.
+    expect(writePieces(file, [Buffer.from('%PDF')]).bytes).toBe(4);
+    expect(readFileSync(file, 'latin1')).toBe('%PDF');
   });
 });
 

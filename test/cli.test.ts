@@ -1,9 +1,10 @@
 /** The command line as a user meets it: the real bin, exit codes, what is (not) written, no stack traces for user mistakes. */
+import { spawnSync } from 'node:child_process';
 import { cpSync, existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { ROOT, cli, hashTree } from './helpers/cli.ts';
+import { BIN, ROOT, cli, hashTree } from './helpers/cli.ts';
 
 const FIXTURE = path.join(ROOT, 'test/fixtures/engine');
 const temp = mkdtempSync(path.join(tmpdir(), 'plumbline-cli-'));
@@ -29,6 +30,25 @@ describe('plumbline CLI', () => {
     // The pack, and the build cache beside it (not part of the pack; see test/build-cache.test.ts).
     expect(readdirSync(out).sort()).toEqual(['.plumbline-cache', 'charts', 'index.html', 'index.md', 'manifest.json', 'pack.pdf', 'record.json', 'summary.json']);
     expect(hashTree(FIXTURE)).toEqual(before);
+  });
+  it('PLUMBLINE_TIMING=1 prints each stage of a build on stderr, in order, and leaves stdout and the pack as they are', () => {
+    const quiet = path.join(temp, 'untimed');
+    const timed = path.join(temp, 'timed');
+    const plain = cli('build', FIXTURE, '--out', quiet, '-q');
+    const r = spawnSync(process.execPath, [BIN, 'build', FIXTURE, '--out', timed, '-q'], { encoding: 'utf8', env: { ...process.env, NO_COLOR: '1', PLUMBLINE_TIMING: '1' } });
+    expect(r.status).toBe(0);
+    expect(r.stdout.replace(timed, quiet)).toBe(plain.out);
+    expect(plain.err).not.toMatch(/timing:/);
+    const stages = [...r.stderr.matchAll(/^timing: (.+?) +(\d+) ms, at (\d+) ms$/gm)];
+    const names = stages.map((m) => m[1]);
+    for (const stage of ['start and arguments', 'workspace read', 'analysis and summary.json', 'pdf', 'pack written']) expect(names, stage).toContain(stage);
+    expect(names.indexOf('workspace read')).toBeLessThan(names.indexOf('pdf'));
+    expect(names.at(-1)).toBe('pack written');
+    // Each "at" is the time since the process started: it never goes back.
+    const at = stages.map((m) => Number(m[3]));
+    expect(at).toEqual([...at].sort((a, b) => a - b));
+    const packOf = (dir: string) => Object.fromEntries(Object.entries(hashTree(dir)).filter(([f]) => !f.startsWith('.plumbline-cache/')));
+    expect(packOf(timed)).toEqual(packOf(quiet));
   });
   it('building twice gives byte-identical files: pack.pdf, index.html, index.md, charts, summary.json, manifest.json', () => {
     const a = path.join(temp, 'twice-a');

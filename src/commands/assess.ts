@@ -133,6 +133,15 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
   const outDir = values.out;
   const json = values.json === true;
   const asOf = typeof values.date === 'string' ? values.date : undefined;
+  // PLUMBLINE_TIMING=1: each stage's milliseconds on stderr, with the time since the process started
+  // (DEVELOPERS.md, "Where a build's time goes").
+  const timing = process.env.PLUMBLINE_TIMING ? (stage: string, ms: number) => io.err(`timing: ${stage.padEnd(48)} ${ms.toFixed(0).padStart(5)} ms, at ${performance.now().toFixed(0)} ms`) : undefined;
+  let clock = performance.now();
+  const lap = (stage: string) => {
+    timing?.(stage, performance.now() - clock);
+    clock = performance.now();
+  };
+  lap('start and arguments');
   // A build's heap stays near what is live: a million-point series peaked at 1.5 GB without this (collect.ts).
   moderateHeapGrowth();
   // review.yaml's settings as the last build into --out read them, where its text is the same.
@@ -147,6 +156,7 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
     }
     return EXIT.usage;
   }
+  lap('workspace read');
   let ws = loaded.workspace;
   let audience: { tag: string; name: string | null } | undefined;
   if (only !== undefined) {
@@ -177,6 +187,7 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
     const previousLedger = previous ? readPreviousLedger(previousDir, previous.asOf) : undefined;
     // The renderers are loaded only when a pack is built.
     const { planPack } = await import('../build.ts');
+    lap('earlier pack read, build modules loaded');
     // The pack's temporary folder, from here: summary.json is written into it as the analysis makes it.
     folder = openPackFolder(outDir);
     try {
@@ -192,7 +203,9 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
         ...(previousLedger ? { previousLedger } : {}),
         ...(audience ? { audience } : {}),
         ...(progress ? { progress: (stage: string, done: number, total: number) => progress(`${stage} ${done}/${total}`) } : {}),
+        ...(timing ? { timing } : {}),
       });
+      clock = performance.now();
     } catch (e) {
       discardPackFolder(folder);
       throw e;
@@ -204,6 +217,7 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
   const kept = memo?.keep();
   const cache = kept ? new Map([...plan.cache, [REVIEW_MEMO, () => kept.bytes]]) : plan.cache;
   writePack(folder, plan.files, cache, kept?.unchanged ? new Set([...plan.cacheKept, REVIEW_MEMO]) : plan.cacheKept, plan.copies, CACHE_DIR);
+  lap('pack written');
   if (json) return io.out(resultJson('build', dir, plan.exitCode, plan.diagnostics, plan.briefs, { out: outDir, files: [...plan.files.keys(), ...plan.placed.keys(), ...plan.copies.keys()].sort(), comparedWith: previous?.asOf ?? null, cache: values['no-cache'] === true ? null : plan.cacheUse })), plan.exitCode;
   printDiagnostics(io, plan.diagnostics, quiet);
   const counts = new Map<string, number>();

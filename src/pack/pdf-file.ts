@@ -96,6 +96,11 @@ export class PdfFile {
 
   /** The file, with its cross-reference table and trailer (`root`, the catalog; `info`, the document information). */
   finish(root: number, info: number): Uint8Array {
+    return Buffer.concat(this.finishInPieces(root, info));
+  }
+
+  /** The file as `finish` gives it, in the pieces it was gathered in: a writer takes them as they are, without joining ten megabytes first. */
+  finishInPieces(root: number, info: number): readonly Uint8Array[] {
     const missing = this.offsets.findIndex((o, i) => i > 0 && o < 0);
     if (missing > 0) throw new Error(`internal: PDF object ${missing} was reserved but never written`);
     const xref = this.length + this.pending.length;
@@ -103,7 +108,7 @@ export class PdfFile {
     for (let i = 1; i < this.offsets.length; i++) table += `${String(this.offsets[i]).padStart(10, '0')} 00000 n \n`;
     this.text(`${table}\ntrailer\n${dict({ Size: String(this.offsets.length), Root: ref(root), Info: ref(info) })}\n\nstartxref\n${xref}\n%%EOF`);
     this.flush();
-    return Buffer.concat(this.chunks);
+    return this.chunks;
   }
 
   private text(s: string): void {

@@ -470,12 +470,13 @@ function partOf(sheets: readonly SheetInk[], anchors: LaidOutPart['anchors'], li
   };
 }
 
-export async function toPdf(input: PdfInput): Promise<{ bytes: Uint8Array; parts: LaidOutPart[] }> {
+/** pack.pdf, in the pieces it was gathered in (`pieces`, joined: the file), and its parts as laid out. */
+export async function toPdf(input: PdfInput): Promise<{ pieces: readonly Uint8Array[]; parts: LaidOutPart[] }> {
   const faces = facesOf(input.fonts);
   const context: LayoutContext = { paper: input.paper, scenes: input.scenes, faces };
   const parts = splitParts(input.tree).map((nodes, i) => input.reuse?.(i, nodes) ?? layoutPart(nodes, i === 0, context));
   const asOf = dateString(new Date(`${input.asOf}T00:00:00Z`));
-  const bytes = assemble(parts, input.fonts, faces, PAPER[input.paper], clean(input.title), {
+  const pieces = assemble(parts, input.fonts, faces, PAPER[input.paper], clean(input.title), {
     Title: textString(clean(input.title)),
     Author: textString(clean(input.author)),
     Subject: textString(clean(input.subject)),
@@ -484,7 +485,7 @@ export async function toPdf(input: PdfInput): Promise<{ bytes: Uint8Array; parts
     CreationDate: asOf,
     ModDate: asOf,
   });
-  return { bytes, parts };
+  return { pieces, parts };
 }
 
 /**
@@ -495,7 +496,7 @@ export async function scenePdf(scene: Scene, fonts: PdfInput['fonts']): Promise<
   const faces = facesOf(fonts);
   const ink = new SheetInk();
   drawScene(ink, scene, { x: 20, top: scene.height + 20, scale: 1 }, faces);
-  return assemble([partOf([ink], [], [], [])], fonts, faces, [scene.width + 40, scene.height + 40], null, {});
+  return Buffer.concat(assemble([partOf([ink], [], [], [])], fonts, faces, [scene.width + 40, scene.height + 40], null, {}));
 }
 
 /**
@@ -511,7 +512,7 @@ function assemble(
   size: readonly [number, number],
   footer: string | null,
   info: Readonly<Record<string, string>>,
-): Uint8Array {
+): readonly Uint8Array[] {
   const file = new PdfFile();
   const pagesRoot = file.reserve();
   const catalog = file.add(dict({ Type: '/Catalog', Pages: ref(pagesRoot), ViewerPreferences: dict({ DisplayDocTitle: 'true' }), Lang: asciiString('en') }));
@@ -632,5 +633,5 @@ function assemble(
   for (const [face, g, t] of [...parts.flatMap((p) => p.shaped), ...shapedOf([...extras, ...[...titleForms.values()].map((f) => f.ink)])]) if ((face === 'F0' || face === 'F1') && !shaped[face].has(g)) shaped[face].set(g, t);
   writeWholeFont(file, fonts.regular, faces.regular.font, shaped.F0, fontRefs.F0);
   writeWholeFont(file, fonts.semibold, faces.semibold.font, shaped.F1, fontRefs.F1);
-  return file.finish(catalog, infoRef);
+  return file.finishInPieces(catalog, infoRef);
 }

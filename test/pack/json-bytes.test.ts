@@ -24,6 +24,10 @@ describe('jsonBytes', () => {
   it('writes a document larger than a chunk in pieces that join up exactly, re-indenting the parts it stringifies whole', () => {
     const big = { points: Array.from({ length: 40_000 }, (_, i) => ({ label: `p${i}\n\u2028`, value: i / 7, signals: i % 3 ? [] : ['beyond-limits'] })) };
     expect(decode(jsonBytes(big))).toBe(reference(big));
+    // jsonBytes hands a plain document this size to JSON.stringify whole; jsonChunks still writes it piece by piece.
+    const parts: Uint8Array[] = [];
+    jsonChunks(big, {}, (b) => parts.push(b.slice()));
+    expect(decode(Buffer.concat(parts))).toBe(reference(big));
   });
 });
 
