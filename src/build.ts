@@ -17,12 +17,13 @@ import { type KnownText, type PagePart, type SvgJob, type TextPagesInput, writeT
 import { type PagesWorker, startPagesWorker, startsPagesWorkerEarly } from './pack/pages-thread.ts';
 import { type Paper, toPdf } from './pack/pdf.ts';
 import { loadFonts } from './render/fonts.ts';
+import { type StoredLayouts, rememberWords, wordsShaped } from './render/fontkit.ts';
 import { layoutChart } from './render/scene/layout.ts';
 import { chartSpec } from './render/scene/spec.ts';
 import { createTextMetrics } from './render/scene/text-metrics.ts';
 import type { Scene } from './render/scene/types.ts';
 import { defaultJobs, drawCharts } from './render/pool/chart-pool.ts';
-import { type CacheHit, type CachedPart, ENTRY_INDEX, type PageRecord, RECORD_STAMP, TEXT_INDEX, recordStamp, type TextIndex, type IndexedEntry, SECTION_INDEX, SUMMARY_INDEX, type Side, type SideKind, type Sides, type Stored, type SummaryIndex, type SummaryPieces, cacheKey, encodeEntry, encodeStored, entryPath, partKey, partPath, sectionKey, sidePath } from './pack/build-cache.ts';
+import { type CacheHit, type CachedPart, ENTRY_INDEX, type PageRecord, RECORD_STAMP, SHAPED_WORDS, shapedWordsFile, TEXT_INDEX, recordStamp, type TextIndex, type IndexedEntry, SECTION_INDEX, SUMMARY_INDEX, type Side, type SideKind, type Sides, type Stored, type SummaryIndex, type SummaryPieces, cacheKey, encodeEntry, encodeStored, entryPath, partKey, partPath, sectionKey, sidePath } from './pack/build-cache.ts';
 import { chartIdOf, chartIdsIn, hasFootnotes } from './pack/mdast.ts';
 import type { RootContent } from 'mdast';
 import { splitParts } from './pack/parts.ts';
@@ -106,6 +107,8 @@ export interface PackOptions {
   readonly madeSections?: (key: string) => MadeSection | undefined;
   /** Where an earlier build's index.md and index.html hold each part's texts, by part key (read only when `cache` is given). */
   readonly partTexts?: (key: string) => KnownText | undefined;
+  /** The words an earlier build shaped whole with the font file of a SHA-256 (read only when `cache` is given). */
+  readonly shapedWords?: (fontSha256: string) => StoredLayouts | undefined;
 }
 
 export const DEFAULT_OPTIONS: PackOptions = { paper: 'a4', png: false };
@@ -218,6 +221,15 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   const keys = options.cache ? ws.characteristics.map((c) => cacheKey(ws, c, asOf)) : [];
   const hits = keys.map((k) => options.cache?.(k));
   const fonts = loadFonts();
+  // The fonts' words as the last build shaped them: the global pages' words are the same build after build.
+  const faceFiles = [fonts.regular, fonts.semibold].map((data) => ({ data, sha256: sha256(data) }));
+  const storedWords = new Map<string, number>();
+  if (options.cache && options.shapedWords) {
+    for (const f of faceFiles) {
+      const layouts = options.shapedWords(f.sha256);
+      if (layouts) rememberWords(f.data, layouts), storedWords.set(f.sha256, layouts.words.size + layouts.pairs.size);
+    }
+  }
   const metrics = createTextMetrics(fonts);
 
   // Scenes here (every page needs them); charts from the cache are not drawn again, but copied from
@@ -583,6 +595,17 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     const record = (name: string, into: string): PageRecord => ({ bytes: listed.get(name)!.bytes, sha256: listed.get(name)!.sha256, stamp: stampOf(path.join(into, name)) });
     const textAt = new Map(textsPlaced.map((at, i) => [partKeys[i]!, at] as const));
     cache.set(RECORD_STAMP, recordStamp);
+    // The words this build shaped whole, for the next; the earlier build's file is kept where they are the same.
+    const shaped = new Map<string, StoredLayouts>();
+    let sameWords = storedWords.size === faceFiles.length;
+    for (const f of faceFiles) {
+      const s = wordsShaped(f.data);
+      if (!s) continue;
+      shaped.set(f.sha256, { words: s.words, pairs: s.pairs, plain: s.plain });
+      if (s.fresh > 0 || s.words.size + s.pairs.size !== storedWords.get(f.sha256)) sameWords = false;
+    }
+    cache.set(SHAPED_WORDS, () => shapedWordsFile(shaped));
+    if (sameWords) cacheKept.add(SHAPED_WORDS);
     cache.set(TEXT_INDEX, (into) => encodeStored({ md: record('index.md', into), html: record('index.html', into), parts: textAt } satisfies TextIndex));
   }
   lap('manifest and cache');

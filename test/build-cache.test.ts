@@ -13,6 +13,7 @@ import { deserialize } from 'node:v8';
 import { afterAll, describe, expect, it } from 'vitest';
 import { ROOT, cli, hashTree } from './helpers/cli.ts';
 import { writePlant } from '../bench/plant.ts';
+import { loadFonts } from '../src/render/fonts.ts';
 
 const temp = mkdtempSync(path.join(tmpdir(), 'plumbline-cache-'));
 afterAll(() => rmSync(temp, { recursive: true, force: true }));
@@ -412,6 +413,56 @@ describe('review.yaml through the cache', () => {
     expect(bad.code).toBe(2);
     expect(bad.err).toContain('review.yaml');
     expect(readFileSync(path.join(out, 'index.md'), 'utf8')).toMatch(/^# A title of our own$/m);
+  }, 120_000);
+});
+
+describe('the fonts\' layouts through the cache', () => {
+  const ws = path.join(temp, 'words-ws');
+  cpSync(path.join(ROOT, 'data/demo'), ws, { recursive: true });
+  const out = path.join(temp, 'words-out');
+  const cold = path.join(temp, 'words-cold');
+  const file = path.join(out, CACHE, 'words.v8');
+
+  it('keeps each face\'s words and pairs by its font file\'s SHA-256, and a damaged file changes no byte of the pack', () => {
+    expect(cli('build', ws, '--out', out, '-q').code).toBe(0);
+    // Keyed by the SHA-256 of the font files the pack embeds, computed here with Node's crypto module.
+    const fonts = loadFonts();
+    const shas = [fonts.regular, fonts.semibold].map((b) => createHash('sha256').update(b).digest('hex')).sort();
+    const stored = deserialize(readFileSync(file)) as { faces: Map<string, { words: Map<string, unknown>; pairs: Map<number, unknown>; plain: number[] }> };
+    expect([...stored.faces.keys()].sort()).toEqual(shas);
+    const regular = stored.faces.get(createHash('sha256').update(fonts.regular).digest('hex'))!;
+    // A word of the demo's text, and no figures: those are laid out from the pairs.
+    expect(regular.words.has('Decisions')).toBe(true);
+    expect([...regular.words.keys()].some((w) => /^[0-9.,\-–]+$/.test(w))).toBe(false);
+    expect(regular.pairs.size).toBeGreaterThan(0);
+
+    // Nothing changed: a rebuild lays out only the pages it cannot take whole from the last pack, and
+    // a word no build used for four builds is no longer kept. A word the build uses is kept with age 0.
+    const ageOf = (word: string) => (deserialize(readFileSync(file)) as typeof stored).faces.get(createHash('sha256').update(fonts.regular).digest('hex'))!.words.get(word) as { age: number } | undefined;
+    expect(ageOf('Decisions')?.age).toBe(0);
+    const ages: (number | undefined)[] = [];
+    for (let i = 0; i < 5; i++) {
+      expect(cli('build', ws, '--out', out, '-q').code).toBe(0);
+      ages.push(ageOf('Decisions')?.age);
+    }
+    // "Decisions" heads a page kept whole from the second build on: used by the cold build and the
+    // first rebuild (which adds the comparison with the previous pack), then a build older each time.
+    expect(ages).toEqual([0, 1, 2, 3, 4]);
+    expect(cli('build', ws, '--out', out, '-q').code).toBe(0);
+    expect(ageOf('Decisions')).toBeUndefined();
+    // Now every word kept is used: built once more, the file is linked into the new cache as it was.
+    const inode = statSync(file).ino;
+    expect(cli('build', ws, '--out', out, '-q').code).toBe(0);
+    expect(statSync(file).ino).toBe(inode);
+
+    // A damaged file is not used, and the pack is what a build without the cache writes.
+    writeFileSync(file, Buffer.from('not a cache file'));
+    correctLastReading(ws, 0.2);
+    cpSync(out, cold, { recursive: true });
+    expect(cli('build', ws, '--out', out, '-q').code).toBe(0);
+    expect(cli('build', ws, '--out', cold, '--no-cache', '-q').code).toBe(0);
+    expect(packOnly(out)).toEqual(packOnly(cold));
+    expect((deserialize(readFileSync(file)) as typeof stored).faces.size).toBe(2);
   }, 120_000);
 });
 

@@ -25,6 +25,7 @@ import type { LaidOutPart, Paper } from './pdf.ts';
 import type { KnownText, PlacedText } from './text-pages.ts';
 import { type FileRange, type FileStamp, readRange, sameStamp, stampOf } from './write.ts';
 import { TOOL } from '../version.ts';
+import type { StoredLayouts } from '../render/fontkit.ts';
 import type { CharacteristicInput, Workspace } from '../workspace/load.ts';
 import type { ReviewConfig } from '../model.ts';
 import { readReview } from '../workspace/review-file.ts';
@@ -497,4 +498,25 @@ export const recordStamp = (into: string): Uint8Array => encodeStored({ format: 
 export function recordAsWritten(packDir: string): boolean {
   const v = readStoredFile(packDir, RECORD_STAMP) as { format?: unknown; tool?: { name?: unknown; version?: unknown }; stamp?: unknown } | undefined;
   return v?.format === FORMAT && v.tool?.name === TOOL.name && v.tool?.version === TOOL.version && sameStamp(stampOf(path.join(packDir, 'record.json')), v.stamp);
+}
+
+/** What the last build's fonts laid out (fontkit.ts, `wordsShaped`: words shaped whole, pairs), by the SHA-256 of each font file. */
+export const SHAPED_WORDS = `${CACHE_DIR}/words.v8`;
+
+export const shapedWordsFile = (faces: ReadonlyMap<string, StoredLayouts>): Uint8Array => encodeStored({ format: FORMAT, tool: TOOL, faces });
+
+/**
+ * What the build of the pack in `packDir` laid out with the font file of
+ * a given SHA-256, for this tool (a layout is a function of the font's
+ * bytes and fontkit's version, which the tool's version pins); undefined
+ * where there is nothing. Each kept layout is checked as it is used
+ * (fontkit.ts).
+ */
+export function openShapedWords(packDir: string): (fontSha256: string) => StoredLayouts | undefined {
+  const v = readStoredFile(packDir, SHAPED_WORDS) as { format?: unknown; tool?: { name?: unknown; version?: unknown }; faces?: unknown } | undefined;
+  const ok = v?.format === FORMAT && v.tool?.name === TOOL.name && v.tool?.version === TOOL.version && v.faces instanceof Map;
+  return (sha) => {
+    const face = ok ? ((v.faces as Map<unknown, unknown>).get(sha) as Partial<StoredLayouts> | undefined) : undefined;
+    return face && face.words instanceof Map && face.pairs instanceof Map && Array.isArray(face.plain) ? (face as StoredLayouts) : undefined;
+  };
 }

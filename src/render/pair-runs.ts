@@ -153,26 +153,35 @@ export function plainCharacters(font: FontkitFont): ReadonlySet<number> {
 }
 
 /** What fontkit's layout of a pair adds to its first glyph's position; null where the pair does not lay out as two plain glyphs. */
-interface Nudge {
+export interface Nudge {
   readonly xAdvance: number;
   readonly yAdvance: number;
   readonly xOffset: number;
   readonly yOffset: number;
 }
 
+/** A pair's key in the map of pairs: the first character's code unit times 65,536 plus the second's. */
+export const pairKey = (a: number, b: number) => a * 0x10000 + b;
+
 /**
  * The layout of a word of plain characters, from its glyphs and its
  * pairs' layouts (`shape` is fontkit's own layout); undefined for any
- * other word, which the caller shapes.
+ * other word, which the caller shapes. `nudges`, where given, is the map
+ * of pairs (by pairKey) read and filled here: one an earlier build laid
+ * out with the same font comes in filled; `plain`, where given, is
+ * plainCharacters of the same font, as an earlier build found them.
  */
-export function pairRuns(font: FontkitFont, shape: (text: string) => Run): (text: string) => Run | undefined {
-  const plain = plainCharacters(font);
+export function pairRuns(
+  font: FontkitFont,
+  shape: (text: string) => Run,
+  nudges = new Map<number, Nudge | null>(),
+  plain: ReadonlySet<number> = plainCharacters(font),
+): (text: string) => Run | undefined {
   if (plain.size === 0) return () => undefined;
   const glyphOf = new Map<number, Glyph>();
   for (const cp of plain) glyphOf.set(cp, font.glyphForCodePoint(cp));
-  const nudges = new Map<number, Nudge | null>();
   const nudge = (a: number, b: number): Nudge | null => {
-    const key = a * 0x10000 + b;
+    const key = pairKey(a, b);
     let n = nudges.get(key);
     if (n === undefined) {
       const run = shape(String.fromCharCode(a, b));
