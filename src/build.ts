@@ -17,15 +17,16 @@ import { type KnownText, type PagePart, type SvgJob, type TextPagesInput, writeT
 import { type PagesWorker, startPagesWorker, startsPagesWorkerEarly } from './pack/pages-thread.ts';
 import { type Paper, toPdf } from './pack/pdf.ts';
 import { loadFonts } from './render/fonts.ts';
+import { rememberParsed, templatesParsed } from './pack/template.ts';
 import { type StoredLayouts, rememberWords, wordsShaped } from './render/fontkit.ts';
 import { layoutChart } from './render/scene/layout.ts';
 import { chartSpec } from './render/scene/spec.ts';
 import { createTextMetrics } from './render/scene/text-metrics.ts';
 import type { Scene } from './render/scene/types.ts';
 import { defaultJobs, drawCharts } from './render/pool/chart-pool.ts';
-import { type CacheHit, type CachedPart, ENTRY_INDEX, type PageRecord, RECORD_STAMP, SHAPED_WORDS, shapedWordsFile, TEXT_INDEX, recordStamp, type TextIndex, type IndexedEntry, SECTION_INDEX, SUMMARY_INDEX, type Side, type SideKind, type Sides, type Stored, type SummaryIndex, type SummaryPieces, cacheKey, encodeEntry, encodeStored, entryPath, partKey, partPath, sectionKey, sidePath } from './pack/build-cache.ts';
+import { type CacheHit, type CachedPart, ENTRY_INDEX, type PageRecord, RECORD_STAMP, SHAPED_WORDS, TEMPLATE_TREES, shapedWordsFile, templateTreesFile, TEXT_INDEX, recordStamp, type TextIndex, type IndexedEntry, SECTION_INDEX, SUMMARY_INDEX, type Side, type SideKind, type Sides, type Stored, type SummaryIndex, type SummaryPieces, cacheKey, encodeEntry, encodeStored, entryPath, partKey, partPath, sectionKey, sidePath } from './pack/build-cache.ts';
 import { chartIdOf, chartIdsIn, hasFootnotes } from './pack/mdast.ts';
-import type { RootContent } from 'mdast';
+import type { Root, RootContent } from 'mdast';
 import { splitParts } from './pack/parts.ts';
 import { RECORD_FILE, type SummaryLike, compareSummaries, recordOf } from './review/since.ts';
 import { SUMMARY_FORMAT, buildSummary } from './summary.ts';
@@ -109,6 +110,8 @@ export interface PackOptions {
   readonly partTexts?: (key: string) => KnownText | undefined;
   /** The words an earlier build shaped whole with the font file of a SHA-256 (read only when `cache` is given). */
   readonly shapedWords?: (fontSha256: string) => StoredLayouts | undefined;
+  /** The templates' syntax trees an earlier build parsed, by template text (used only when `cache` is given). */
+  readonly templateTrees?: ReadonlyMap<string, Root> | undefined;
 }
 
 export const DEFAULT_OPTIONS: PackOptions = { paper: 'a4', png: false };
@@ -231,6 +234,7 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     }
   }
   const metrics = createTextMetrics(fonts);
+  if (options.cache && options.templateTrees) rememberParsed(options.templateTrees);
 
   // Scenes here (every page needs them); charts from the cache are not drawn again, but copied from
   // it into the pack. A cached scene is read only where a page that draws it is laid out or written
@@ -606,6 +610,11 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     }
     cache.set(SHAPED_WORDS, () => shapedWordsFile(shaped));
     if (sameWords) cacheKept.add(SHAPED_WORDS);
+    // The templates' trees, likewise.
+    const trees = templatesParsed(ws.templates);
+    cache.set(TEMPLATE_TREES, () => templateTreesFile(trees.trees));
+    const keptTrees = options.templateTrees;
+    if (trees.fresh === 0 && keptTrees?.size === trees.trees.size && [...trees.trees.keys()].every((t) => keptTrees.has(t))) cacheKept.add(TEMPLATE_TREES);
     cache.set(TEXT_INDEX, (into) => encodeStored({ md: record('index.md', into), html: record('index.html', into), parts: textAt } satisfies TextIndex));
   }
   lap('manifest and cache');

@@ -6,11 +6,11 @@
  */
 import { spawn, spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
-import { appendFileSync, cpSync, existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
+import { appendFileSync, cpSync, existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, renameSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { discardPackFolder, fileSink, fillFile, openPackFolder, writePack, writePieces } from '../src/pack/write.ts';
+import { discardPackFolder, fileSink, fillFile, openPackFolder, removeTree, writePack, writePieces } from '../src/pack/write.ts';
 import { BIN, ROOT, cli, hashTree } from './helpers/cli.ts';
 
 const temp = mkdtempSync(path.join(tmpdir(), 'plumbline-atomic-'));
@@ -135,6 +135,22 @@ describe('the pack folder a build opens before it plans', () => {
     writeFileSync(source, earlier.subarray(0, 1000));
     expect(() => fillFile(unfilled.fill)).toThrow(/changed during the build/);
     discardPackFolder(folder);
+  });
+});
+
+describe('removing the previous pack', () => {
+  it('removes the folder and all in it, a link to a folder without what it links to, and nothing when there is no folder', () => {
+    const dir = path.join(temp, 'old-pack');
+    const outside = path.join(temp, 'outside');
+    mkdirSync(path.join(dir, 'charts', 'deep'), { recursive: true });
+    mkdirSync(outside, { recursive: true });
+    writeFileSync(path.join(outside, 'keep.txt'), 'kept');
+    for (const f of ['index.md', 'charts/a.svg', 'charts/deep/b.svg']) writeFileSync(path.join(dir, f), f);
+    symlinkSync(outside, path.join(dir, 'linked'));
+    removeTree(dir);
+    expect(existsSync(dir)).toBe(false);
+    expect(readFileSync(path.join(outside, 'keep.txt'), 'utf8')).toBe('kept');
+    expect(() => removeTree(dir)).not.toThrow();
   });
 });
 

@@ -466,6 +466,34 @@ describe('the fonts\' layouts through the cache', () => {
   }, 120_000);
 });
 
+describe('the templates\' trees through the cache', () => {
+  const ws = path.join(temp, 'trees-ws');
+  cpSync(path.join(ROOT, 'data/demo'), ws, { recursive: true });
+  const out = path.join(temp, 'trees-out');
+  const cold = path.join(temp, 'trees-cold');
+  const file = path.join(out, CACHE, 'templates.v8');
+
+  it('keeps each template\'s tree by its text, linked while the templates are the same, and a damaged file changes no byte of the pack', () => {
+    expect(cli('build', ws, '--out', out, '-q').code).toBe(0);
+    // The tool's four templates (the demo has none of its own), by their text as in templates/.
+    const texts = ['pack', 'characteristic', 'cautions', 'method'].map((n) => readFileSync(path.join(ROOT, 'templates', `${n}.md`), 'utf8')).sort();
+    const stored = () => deserialize(readFileSync(file)) as { trees: Map<string, { type: string }> };
+    expect([...stored().trees.keys()].sort()).toEqual(texts);
+    expect([...stored().trees.values()].every((t) => t.type === 'root')).toBe(true);
+    const inode = statSync(file).ino;
+    expect(cli('build', ws, '--out', out, '-q').code).toBe(0);
+    expect(statSync(file).ino).toBe(inode);
+
+    writeFileSync(file, Buffer.from('not a cache file'));
+    correctLastReading(ws, 0.3);
+    cpSync(out, cold, { recursive: true });
+    expect(cli('build', ws, '--out', out, '-q').code).toBe(0);
+    expect(cli('build', ws, '--out', cold, '--no-cache', '-q').code).toBe(0);
+    expect(packOnly(out)).toEqual(packOnly(cold));
+    expect([...stored().trees.keys()].sort()).toEqual(texts);
+  }, 120_000);
+});
+
 describe('the previous record, as this tool wrote it', () => {
   const ws = path.join(temp, 'record-ws');
   cpSync(path.join(ROOT, 'data/demo'), ws, { recursive: true });

@@ -145,7 +145,7 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
   // A build's heap stays near what is live: a million-point series peaked at 1.5 GB without this (collect.ts).
   moderateHeapGrowth();
   // review.yaml's settings as the last build into --out read them, where its text is the same.
-  const { CACHE_DIR, REVIEW_MEMO, openCache, openMadeSections, openPartCache, openPartTexts, openShapedWords, openSummaryPieces, recordAsWritten, reviewMemo } = await import('../pack/build-cache.ts');
+  const { CACHE_DIR, REVIEW_MEMO, openCache, openMadeSections, openPartCache, openPartTexts, openShapedWords, openSummaryPieces, openTemplateTrees, recordAsWritten, reviewMemo } = await import('../pack/build-cache.ts');
   const memo = values['no-cache'] === true ? undefined : reviewMemo(outDir);
   const loaded = loadWorkspace(dir, memo ? { readReview: memo.read } : {});
   if (!loaded.ok) {
@@ -197,7 +197,7 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
         chartsInto: folder.temp,
         ...(jobs !== undefined ? { jobs } : {}),
         ...(pagesWorker ? { pagesWorker } : {}),
-        ...(values['no-cache'] === true ? {} : { cache: openCache(outDir), partCache: openPartCache(outDir), summaryPieces: openSummaryPieces(outDir), madeSections: openMadeSections(outDir), partTexts: openPartTexts(outDir), shapedWords: openShapedWords(outDir) }),
+        ...(values['no-cache'] === true ? {} : { cache: openCache(outDir), partCache: openPartCache(outDir), summaryPieces: openSummaryPieces(outDir), madeSections: openMadeSections(outDir), partTexts: openPartTexts(outDir), shapedWords: openShapedWords(outDir), templateTrees: openTemplateTrees(outDir) }),
         png: values.png === true,
         ...(previous ? { previous } : {}),
         ...(previousLedger ? { previousLedger } : {}),

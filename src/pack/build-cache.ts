@@ -26,6 +26,7 @@ import type { KnownText, PlacedText } from './text-pages.ts';
 import { type FileRange, type FileStamp, readRange, sameStamp, stampOf } from './write.ts';
 import { TOOL } from '../version.ts';
 import type { StoredLayouts } from '../render/fontkit.ts';
+import type { Root } from 'mdast';
 import type { CharacteristicInput, Workspace } from '../workspace/load.ts';
 import type { ReviewConfig } from '../model.ts';
 import { readReview } from '../workspace/review-file.ts';
@@ -519,4 +520,15 @@ export function openShapedWords(packDir: string): (fontSha256: string) => Stored
     const face = ok ? ((v.faces as Map<unknown, unknown>).get(sha) as Partial<StoredLayouts> | undefined) : undefined;
     return face && face.words instanceof Map && face.pairs instanceof Map && Array.isArray(face.plain) ? (face as StoredLayouts) : undefined;
   };
+}
+
+/** The templates' syntax trees the last build parsed, by template text (template.ts, `templatesParsed`). */
+export const TEMPLATE_TREES = `${CACHE_DIR}/templates.v8`;
+
+export const templateTreesFile = (trees: ReadonlyMap<string, Root>): Uint8Array => encodeStored({ format: FORMAT, tool: TOOL, trees });
+
+/** The templates' trees the build of the pack in `packDir` parsed, for this tool; undefined where there are none. */
+export function openTemplateTrees(packDir: string): ReadonlyMap<string, Root> | undefined {
+  const v = readStoredFile(packDir, TEMPLATE_TREES) as { format?: unknown; tool?: { name?: unknown; version?: unknown }; trees?: unknown } | undefined;
+  return v?.format === FORMAT && v.tool?.name === TOOL.name && v.tool?.version === TOOL.version && v.trees instanceof Map ? (v.trees as ReadonlyMap<string, Root>) : undefined;
 }

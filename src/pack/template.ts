@@ -34,6 +34,8 @@ const INLINE = /\{\{\s*([a-z][a-z0-9-]*)\s*\}\}/g;
 
 const parser = unified().use(remarkParse).use(remarkGfm);
 const parsed = new Map<string, Root>();
+/** How many template texts were parsed in this process (not taken from rememberParsed). */
+let parsedHere = 0;
 
 function parse(text: string): Root {
   let tree = parsed.get(text);
@@ -41,8 +43,35 @@ function parse(text: string): Root {
     tree = parser.runSync(parser.parse(text)) as Root;
     inlineReferences(tree);
     parsed.set(text, tree);
+    parsedHere++;
   }
   return copyTree(tree);
+}
+
+/**
+ * Trees an earlier build parsed, by template text: a syntax tree is a
+ * function of the text (and the parser, which the tool's version pins),
+ * and parsing the four templates took 50–80 ms of every build.
+ */
+export function rememberParsed(trees: ReadonlyMap<string, Root>): void {
+  for (const [text, tree] of trees) {
+    if (typeof text === 'string' && typeof tree === 'object' && tree !== null && tree.type === 'root' && Array.isArray(tree.children) && !parsed.has(text)) parsed.set(text, tree);
+  }
+}
+
+/**
+ * The trees of `templates` known in this process (parsed, or kept by an
+ * earlier build), by text, for a later build; `fresh`: how many texts were
+ * parsed in this process. A template a build did not fill in (a rebuild
+ * takes every unchanged characteristic's section whole) keeps its tree.
+ */
+export function templatesParsed(templates: Templates): { readonly trees: ReadonlyMap<string, Root>; readonly fresh: number } {
+  const trees = new Map<string, Root>();
+  for (const name of TEMPLATE_NAMES) {
+    const tree = parsed.get(templates[name].text);
+    if (tree) trees.set(templates[name].text, tree);
+  }
+  return { trees, fresh: parsedHere };
 }
 
 /**
