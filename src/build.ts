@@ -18,13 +18,14 @@ import { type PagesWorker, startPagesWorker, startsPagesWorkerEarly } from './pa
 import { type Paper, toPdf } from './pack/pdf.ts';
 import { loadFonts } from './render/fonts.ts';
 import { rememberParsed, templatesParsed } from './pack/template.ts';
-import { type StoredLayouts, rememberWords, wordsShaped } from './render/fontkit.ts';
+import { rememberWords, wordsShaped } from './render/fontkit.ts';
+import { fontPartsOf, rememberFontParts } from './render/pdf-font.ts';
 import { layoutChart } from './render/scene/layout.ts';
 import { chartSpec } from './render/scene/spec.ts';
 import { createTextMetrics } from './render/scene/text-metrics.ts';
 import type { Scene } from './render/scene/types.ts';
 import { defaultJobs, drawCharts } from './render/pool/chart-pool.ts';
-import { type CacheHit, type CachedPart, ENTRY_INDEX, type PageRecord, RECORD_STAMP, SHAPED_WORDS, TEMPLATE_TREES, shapedWordsFile, templateTreesFile, TEXT_INDEX, recordStamp, type TextIndex, type IndexedEntry, SECTION_INDEX, SUMMARY_INDEX, type Side, type SideKind, type Sides, type Stored, type SummaryIndex, type SummaryPieces, cacheKey, encodeEntry, encodeStored, entryPath, partKey, partPath, sectionKey, sidePath } from './pack/build-cache.ts';
+import { type CacheHit, type CachedPart, ENTRY_INDEX, type FaceLayouts, type PageRecord, RECORD_STAMP, SHAPED_WORDS, TEMPLATE_TREES, shapedWordsFile, templateTreesFile, TEXT_INDEX, recordStamp, type TextIndex, type IndexedEntry, SECTION_INDEX, SUMMARY_INDEX, type Side, type SideKind, type Sides, type Stored, type SummaryIndex, type SummaryPieces, cacheKey, encodeEntry, encodeStored, entryPath, partKey, partPath, sectionKey, sidePath } from './pack/build-cache.ts';
 import { chartIdOf, chartIdsIn, hasFootnotes } from './pack/mdast.ts';
 import type { Root, RootContent } from 'mdast';
 import { splitParts } from './pack/parts.ts';
@@ -109,7 +110,7 @@ export interface PackOptions {
   /** Where an earlier build's index.md and index.html hold each part's texts, by part key (read only when `cache` is given). */
   readonly partTexts?: (key: string) => KnownText | undefined;
   /** The words an earlier build shaped whole with the font file of a SHA-256 (read only when `cache` is given). */
-  readonly shapedWords?: (fontSha256: string) => StoredLayouts | undefined;
+  readonly shapedWords?: (fontSha256: string) => FaceLayouts | undefined;
   /** The templates' syntax trees an earlier build parsed, by template text (used only when `cache` is given). */
   readonly templateTrees?: ReadonlyMap<string, Root> | undefined;
 }
@@ -230,7 +231,11 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
   if (options.cache && options.shapedWords) {
     for (const f of faceFiles) {
       const layouts = options.shapedWords(f.sha256);
-      if (layouts) rememberWords(f.data, layouts), storedWords.set(f.sha256, layouts.words.size + layouts.pairs.size);
+      if (!layouts) continue;
+      rememberWords(f.data, layouts);
+      rememberFontParts(f.data, layouts.pdf);
+      // Counted as kept only with the font's parts for pack.pdf: otherwise the file is written again with them.
+      if (fontPartsOf(f.data) === layouts.pdf) storedWords.set(f.sha256, layouts.words.size + layouts.pairs.size);
     }
   }
   const metrics = createTextMetrics(fonts);
@@ -600,12 +605,13 @@ async function plan(ws: Workspace, asOf: IsoDate, options: PackOptions, allowed:
     const textAt = new Map(textsPlaced.map((at, i) => [partKeys[i]!, at] as const));
     cache.set(RECORD_STAMP, recordStamp);
     // The words this build shaped whole, for the next; the earlier build's file is kept where they are the same.
-    const shaped = new Map<string, StoredLayouts>();
+    const shaped = new Map<string, FaceLayouts>();
     let sameWords = storedWords.size === faceFiles.length;
     for (const f of faceFiles) {
       const s = wordsShaped(f.data);
       if (!s) continue;
-      shaped.set(f.sha256, { words: s.words, pairs: s.pairs, plain: s.plain });
+      const pdf = fontPartsOf(f.data);
+      shaped.set(f.sha256, { words: s.words, pairs: s.pairs, plain: s.plain, ...(pdf ? { pdf } : {}) });
       if (s.fresh > 0 || s.words.size + s.pairs.size !== storedWords.get(f.sha256)) sameWords = false;
     }
     cache.set(SHAPED_WORDS, () => shapedWordsFile(shaped));

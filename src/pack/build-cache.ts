@@ -504,7 +504,12 @@ export function recordAsWritten(packDir: string): boolean {
 /** What the last build's fonts laid out (fontkit.ts, `wordsShaped`: words shaped whole, pairs), by the SHA-256 of each font file. */
 export const SHAPED_WORDS = `${CACHE_DIR}/words.v8`;
 
-export const shapedWordsFile = (faces: ReadonlyMap<string, StoredLayouts>): Uint8Array => encodeStored({ format: FORMAT, tool: TOOL, faces });
+/** One face's record: its layouts, and the parts of its font objects in pack.pdf (pdf-font.ts, FontParts; checked as they are taken). */
+export interface FaceLayouts extends StoredLayouts {
+  readonly pdf?: unknown;
+}
+
+export const shapedWordsFile = (faces: ReadonlyMap<string, FaceLayouts>): Uint8Array => encodeStored({ format: FORMAT, tool: TOOL, faces });
 
 /**
  * What the build of the pack in `packDir` laid out with the font file of
@@ -513,12 +518,12 @@ export const shapedWordsFile = (faces: ReadonlyMap<string, StoredLayouts>): Uint
  * where there is nothing. Each kept layout is checked as it is used
  * (fontkit.ts).
  */
-export function openShapedWords(packDir: string): (fontSha256: string) => StoredLayouts | undefined {
+export function openShapedWords(packDir: string): (fontSha256: string) => FaceLayouts | undefined {
   const v = readStoredFile(packDir, SHAPED_WORDS) as { format?: unknown; tool?: { name?: unknown; version?: unknown }; faces?: unknown } | undefined;
   const ok = v?.format === FORMAT && v.tool?.name === TOOL.name && v.tool?.version === TOOL.version && v.faces instanceof Map;
   return (sha) => {
-    const face = ok ? ((v.faces as Map<unknown, unknown>).get(sha) as Partial<StoredLayouts> | undefined) : undefined;
-    return face && face.words instanceof Map && face.pairs instanceof Map && Array.isArray(face.plain) ? (face as StoredLayouts) : undefined;
+    const face = ok ? ((v.faces as Map<unknown, unknown>).get(sha) as Partial<FaceLayouts> | undefined) : undefined;
+    return face && face.words instanceof Map && face.pairs instanceof Map && Array.isArray(face.plain) ? (face as FaceLayouts) : undefined;
   };
 }
 

@@ -117,30 +117,78 @@ export function cmapText(font: FontkitFont): ReadonlyMap<number, string> {
  * Writes `bytes` (the file `font` was read from) into `file` as the Type0
  * font object `n`; `shaped` gives the text of glyphs shaping made.
  */
-export function writeWholeFont(file: PdfFile, bytes: Uint8Array, font: FontkitFont, shaped: ReadonlyMap<number, string>, n: number): void {
-  const scale = 1000 / font.unitsPerEm;
-  const fontName = name(font.postscriptName || 'Font');
-  const program = pdfFontProgram(bytes);
-  const programFile = file.stream({ Filter: '/FlateDecode', Length1: String(program.length) }, deflateSync(program));
-  const { minX, minY, maxX, maxY } = font.bbox;
-  const descriptor = file.add(
-    dict({
-      Type: '/FontDescriptor',
-      FontName: fontName,
-      // Nonsymbolic (bit 6): the glyphs are Latin text (§9.8.2).
-      Flags: '32',
-      FontBBox: array([minX * scale, minY * scale, maxX * scale, maxY * scale].map(num)),
-      ItalicAngle: num(font.italicAngle),
-      Ascent: num(font.ascent * scale),
-      Descent: num(font.descent * scale),
-      CapHeight: num((font.capHeight || font.ascent) * scale),
-      XHeight: num((font.xHeight || 0) * scale),
-      StemV: '0',
-      FontFile2: ref(programFile),
-    }),
+/**
+ * What a font's objects in pack.pdf take from the font file alone, the
+ * same in every document: the font program as stored (deflated) with its
+ * length before, the name, the descriptor's entries (its FontFile2 apart),
+ * the widths array and the text of each glyph the cmap reaches. Reading
+ * them took 60 ms of every build (fontkit's tables, deflating 200 KB), so
+ * a later build of the same font file takes them from the build cache.
+ */
+export interface FontParts {
+  readonly program: Uint8Array;
+  readonly length1: number;
+  readonly fontName: string;
+  readonly descriptor: Readonly<Record<string, string>>;
+  readonly widths: string;
+  readonly cmap: ReadonlyMap<number, string>;
+}
+
+/** Parts by font file (the bytes object): made here, or kept by an earlier build (rememberFontParts). */
+const partsFor = new WeakMap<object, FontParts>();
+
+const isFontParts = (p: unknown): p is FontParts => {
+  const v = p as Partial<FontParts> | null;
+  return (
+    typeof v === 'object' && v !== null && v.program instanceof Uint8Array && typeof v.length1 === 'number' && typeof v.fontName === 'string' &&
+    typeof v.descriptor === 'object' && v.descriptor !== null && Object.values(v.descriptor).every((x) => typeof x === 'string') &&
+    typeof v.widths === 'string' && v.cmap instanceof Map
   );
-  const advances = advanceWidths(font);
-  const widths = Array.from({ length: font.numGlyphs }, (_, id) => num(Math.round(advances(id) * scale * 1000) / 1000));
+};
+
+/** Parts an earlier build made from the font file `bytes` (the same bytes: the caller checks); anything else is ignored. */
+export function rememberFontParts(bytes: Uint8Array, parts: unknown): void {
+  if (isFontParts(parts) && !partsFor.has(bytes)) partsFor.set(bytes, parts);
+}
+
+/** The parts of the font file `bytes` made or taken in this process, if any, for a later build. */
+export const fontPartsOf = (bytes: Uint8Array): FontParts | undefined => partsFor.get(bytes);
+
+function fontParts(bytes: Uint8Array, font: FontkitFont): FontParts {
+  let parts = partsFor.get(bytes);
+  if (!parts) {
+    const scale = 1000 / font.unitsPerEm;
+    const program = pdfFontProgram(bytes);
+    const { minX, minY, maxX, maxY } = font.bbox;
+    const advances = advanceWidths(font);
+    parts = {
+      program: new Uint8Array(deflateSync(program)),
+      length1: program.length,
+      fontName: name(font.postscriptName || 'Font'),
+      descriptor: {
+        // Nonsymbolic (bit 6): the glyphs are Latin text (§9.8.2).
+        Flags: '32',
+        FontBBox: array([minX * scale, minY * scale, maxX * scale, maxY * scale].map(num)),
+        ItalicAngle: num(font.italicAngle),
+        Ascent: num(font.ascent * scale),
+        Descent: num(font.descent * scale),
+        CapHeight: num((font.capHeight || font.ascent) * scale),
+        XHeight: num((font.xHeight || 0) * scale),
+        StemV: '0',
+      },
+      widths: array(['0', array(Array.from({ length: font.numGlyphs }, (_, id) => num(Math.round(advances(id) * scale * 1000) / 1000)))]),
+      cmap: cmapText(font),
+    };
+    partsFor.set(bytes, parts);
+  }
+  return parts;
+}
+
+export function writeWholeFont(file: PdfFile, bytes: Uint8Array, font: FontkitFont, shaped: ReadonlyMap<number, string>, n: number): void {
+  const parts = fontParts(bytes, font);
+  const fontName = parts.fontName;
+  const programFile = file.stream({ Filter: '/FlateDecode', Length1: String(parts.length1) }, parts.program);
+  const descriptor = file.add(dict({ Type: '/FontDescriptor', FontName: fontName, ...parts.descriptor, FontFile2: ref(programFile) }));
   const cid = file.add(
     dict({
       Type: '/Font',
@@ -148,11 +196,11 @@ export function writeWholeFont(file: PdfFile, bytes: Uint8Array, font: FontkitFo
       BaseFont: fontName,
       CIDSystemInfo: dict({ Registry: asciiString('Adobe'), Ordering: asciiString('Identity'), Supplement: '0' }),
       FontDescriptor: ref(descriptor),
-      W: array(['0', array(widths)]),
+      W: parts.widths,
       CIDToGIDMap: '/Identity',
     }),
   );
-  const text = new Map(cmapText(font));
+  const text = new Map(parts.cmap);
   // What a glyph was shaped from wins over the cmap's code point: "fi" is searchable, "ﬁ" is not.
   for (const [id, t] of shaped) text.set(id, t);
   const entries = [...text].sort(([a], [b]) => a - b);

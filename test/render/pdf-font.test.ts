@@ -8,7 +8,9 @@ import { createRequire } from 'node:module';
 import { describe, expect, it } from 'vitest';
 import type { FontkitFont, FontkitModule } from '../../src/render/fontkit.ts';
 import { loadFonts } from '../../src/render/fonts.ts';
-import { advanceWidths } from '../../src/render/pdf-font.ts';
+import { deserialize, serialize } from 'node:v8';
+import { PdfFile } from '../../src/pack/pdf-file.ts';
+import { advanceWidths, fontPartsOf, rememberFontParts, writeWholeFont } from '../../src/render/pdf-font.ts';
 
 const reference = createRequire(import.meta.url)('@pdf-lib/fontkit') as FontkitModule;
 const files = loadFonts();
@@ -29,5 +31,31 @@ describe('advance widths from the hmtx table', () => {
     const table = { hmtx: { metrics: { length: 3, get: (i: number) => ({ advance: advances[i]! }) } }, getGlyph: () => { throw new Error('not read'); } };
     const width = advanceWidths(table as unknown as FontkitFont);
     expect([0, 1, 2, 3, 40].map(width)).toEqual([500, 600, 700, 700, 700]);
+  });
+});
+
+describe('a font\'s parts kept between builds', () => {
+  /** A document holding the font alone (object 1), as writeWholeFont writes it from `bytes`. */
+  const documentOf = (bytes: Uint8Array) => {
+    const file = new PdfFile();
+    const n = file.reserve();
+    writeWholeFont(file, bytes, reference.create(bytes), new Map([[1, 'fi']]), n);
+    return Buffer.from(file.finish(n, n));
+  };
+  it('write the same bytes as parts made from the font file, and are not taken when malformed', () => {
+    const first = new Uint8Array(files.regular);
+    const made = documentOf(first);
+    const parts = fontPartsOf(first);
+    expect(parts?.program.length).toBeGreaterThan(10_000);
+    // Through the cache's encoding, as the next build reads them.
+    const second = new Uint8Array(files.regular);
+    rememberFontParts(second, deserialize(serialize(parts)));
+    expect(fontPartsOf(second)).not.toBe(parts);
+    expect(documentOf(second).equals(made)).toBe(true);
+    // Parts that are not such (no program) are ignored: the font file is read again.
+    const third = new Uint8Array(files.regular);
+    rememberFontParts(third, { ...parts, program: 'not bytes' });
+    expect(fontPartsOf(third)).toBeUndefined();
+    expect(documentOf(third).equals(made)).toBe(true);
   });
 });
