@@ -11,16 +11,17 @@
  * the words a build shaped whole, and its pairs of figures, can be kept for
  * the next build of the same font file (rememberWords, wordsShaped).
  */
-import { createRequire } from 'node:module';
 import type * as ns from '@pdf-lib/fontkit';
+import { loadFontkit } from './fontkit-load.ts';
 import { type Nudge, pairRuns, plainCharacters } from './pair-runs.ts';
 
 export type FontkitModule = typeof ns;
 export type FontkitFont = ReturnType<typeof ns.create>;
 
-// Loaded with `require`: it ships CommonJS, and an ESM import had Node's CommonJS lexer read the
-// whole bundle first (256–264 ms against 146–160 ms, on the main thread and the pages worker alike).
-const raw: FontkitModule = createRequire(import.meta.url)('@pdf-lib/fontkit') as FontkitModule;
+// Loaded as CommonJS: an ESM import had Node's CommonJS lexer read the whole bundle first (256–264 ms
+// against 146–160 ms, on the main thread and the pages worker alike); and through fontkit-load.ts,
+// which leaves out what loading it costs plumbline for nothing.
+const raw: FontkitModule = loadFontkit<FontkitModule>();
 
 /** fontkit without the remembered layouts: full shaping of every string, spaces included (kerning pairs with a space kept). */
 export const shapingFontkit: FontkitModule = raw;

@@ -1,0 +1,62 @@
+/**
+ * fontkit loaded through fontkit-load.ts (its Brotli dictionary made on
+ * first read, its compiled code kept) must be the library `require` gives:
+ * the reference is @pdf-lib/fontkit itself, loaded from the registry
+ * package with `require`, on the fonts the pack uses.
+ */
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, readFileSync, readdirSync, rmSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import { afterAll, describe, expect, it } from 'vitest';
+import type { FontkitModule } from '../../src/render/fontkit.ts';
+import { EAGER_DICTIONARY, loadFontkit } from '../../src/render/fontkit-load.ts';
+import { loadFonts } from '../../src/render/fonts.ts';
+import { ROOT } from '../helpers/cli.ts';
+
+const require = createRequire(import.meta.url);
+const reference = require('@pdf-lib/fontkit') as FontkitModule;
+const temp = mkdtempSync(path.join(tmpdir(), 'plumbline-fontkit-'));
+afterAll(() => rmSync(temp, { recursive: true, force: true }));
+
+describe('fontkit as plumbline loads it', () => {
+  it('defers the one thing it means to: the installed bundle makes its Brotli dictionary where this module expects', () => {
+    const source = readFileSync(require.resolve('@pdf-lib/fontkit'), 'utf8');
+    expect(source.split(EAGER_DICTIONARY)).toHaveLength(2);
+  });
+
+  it('lays out text as the library loaded by require does, glyph for glyph', () => {
+    const loaded = loadFontkit<FontkitModule>();
+    expect(loaded).not.toBe(reference);
+    const fonts = loadFonts();
+    for (const face of [fonts.regular, fonts.semibold]) {
+      const mine = loaded.create(face);
+      const theirs = reference.create(face);
+      expect([mine.postscriptName, mine.numGlyphs, mine.unitsPerEm]).toEqual([theirs.postscriptName, theirs.numGlyphs, theirs.unitsPerEm]);
+      for (const text of ['Fill volume — line 3', 'office ﬁnal AVAV', '±0.12 ≤ 2026-11-30', 'Überprüfung ḡ']) {
+        const a = mine.layout(text);
+        const b = theirs.layout(text);
+        expect(a.glyphs.map((g) => g.id), text).toEqual(b.glyphs.map((g) => g.id));
+        expect(a.positions.map((p) => [p.xAdvance, p.yAdvance, p.xOffset, p.yOffset]), text).toEqual(b.positions.map((p) => [p.xAdvance, p.yAdvance, p.xOffset, p.yOffset]));
+        expect(a.advanceWidth, text).toBe(b.advanceWidth);
+      }
+    }
+  });
+
+  it('keeps the compiled code in the temporary folder, and not where NODE_DISABLE_COMPILE_CACHE says not to', () => {
+    const load = (env: Record<string, string>) =>
+      spawnSync(process.execPath, ['--import', 'tsx', '-e', "import('./src/render/fontkit-load.ts').then((m) => console.log(typeof m.loadFontkit().create))"], {
+        cwd: ROOT,
+        encoding: 'utf8',
+        env: { ...process.env, ...env },
+      });
+    const off = path.join(temp, 'off');
+    const on = path.join(temp, 'on');
+    const a = load({ TMPDIR: off, NODE_DISABLE_COMPILE_CACHE: '1' });
+    expect(a.stdout.trim()).toBe('function');
+    expect(() => readdirSync(path.join(off, 'plumbline-compile-cache'))).toThrow();
+    for (let i = 0; i < 2; i++) expect(load({ TMPDIR: on }).stdout.trim()).toBe('function');
+    expect(readdirSync(path.join(on, 'plumbline-compile-cache'))).toEqual([expect.stringMatching(/^fontkit-[0-9a-f]{32}\.v8code$/)]);
+  });
+});
