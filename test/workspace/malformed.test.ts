@@ -4,7 +4,7 @@
  * wrong. review.yaml problems stop the build; data and ledger problems stop
  * only the characteristic they belong to.
  */
-import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -152,5 +152,35 @@ describe('inputs that look odd but are fine', () => {
     const r = run({ 'data/a.csv': text });
     const d = r.diagnostics.find((x) => x.ruleId === 'data/not-a-number')!;
     expect(d.line).toBe(4);
+  });
+});
+
+describe('data files reached through symbolic links', () => {
+  /** A workspace whose data/a.csv is a link to `target` (made by `make`, given the workspace's root). */
+  const linked = (make: (root: string) => string) => {
+    const root = mkdtempSync(path.join(tmpdir(), 'plumbline-link-'));
+    roots.push(root);
+    for (const [name, text] of Object.entries({ 'review.yaml': REVIEW, 'data/b.csv': B, 'ledger.csv': LEDGER })) {
+      mkdirSync(path.dirname(path.join(root, name)), { recursive: true });
+      writeFileSync(path.join(root, name), text);
+    }
+    symlinkSync(make(root), path.join(root, 'data/a.csv'));
+    return loadWorkspace(root);
+  };
+  it('refuses a link to a file outside the workspace, naming review.yaml\'s line, and takes one inside it', () => {
+    const outside = mkdtempSync(path.join(tmpdir(), 'plumbline-outside-'));
+    roots.push(outside);
+    writeFileSync(path.join(outside, 'a.csv'), A);
+    const out = linked(() => path.join(outside, 'a.csv'));
+    expect(out.ok).toBe(false);
+    const d = out.ok ? undefined : out.diagnostics[0];
+    expect([d?.ruleId, d?.file, d?.line]).toEqual(['review/data-outside', 'review.yaml', 7]);
+    expect(d?.message).toMatch(/is a link to a file outside the workspace/);
+    // A link to a file inside the workspace (here, through a relative link) is read as that file.
+    const inside = linked((root) => {
+      writeFileSync(path.join(root, 'kept-a.csv'), A);
+      return '../kept-a.csv';
+    });
+    expect(inside.ok).toBe(true);
   });
 });
