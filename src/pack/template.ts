@@ -34,7 +34,7 @@ const INLINE = /\{\{\s*([a-z][a-z0-9-]*)\s*\}\}/g;
 
 const parser = unified().use(remarkParse).use(remarkGfm);
 const parsed = new Map<string, Root>();
-/** How many template texts were parsed in this process (not taken from rememberParsed). */
+/** How many template texts were parsed since the module was loaded (not taken from rememberParsed). */
 let parsedHere = 0;
 
 function parse(text: string): Root {
@@ -60,10 +60,11 @@ export function rememberParsed(trees: ReadonlyMap<string, Root>): void {
 }
 
 /**
- * The trees of `templates` known in this process (parsed, or kept by an
- * earlier build), by text, for a later build; `fresh`: how many texts were
- * parsed in this process. A template a build did not fill in (a rebuild
- * takes every unchanged characteristic's section whole) keeps its tree.
+ * The trees of `templates` known here (parsed, or kept by an earlier
+ * build), by text, for a later build; `fresh`: how many texts were parsed
+ * since the module was loaded. A template a build did not fill in (a
+ * rebuild takes every unchanged characteristic's section whole) keeps its
+ * tree.
  */
 export function templatesParsed(templates: Templates): { readonly trees: ReadonlyMap<string, Root>; readonly fresh: number } {
   const trees = new Map<string, Root>();
