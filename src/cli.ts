@@ -38,6 +38,7 @@ const consoleIo: Io = {
       }
     : {}),
   today: new Date().toISOString().slice(0, 10),
+  ...(process.env.PLUMBLINE_TIMING ? { timing: true } : {}),
 };
 
 const COMMANDS = ['init', 'check', 'build', 'ledger', 'verify', 'help'] as const;

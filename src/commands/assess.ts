@@ -135,7 +135,7 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
   const asOf = typeof values.date === 'string' ? values.date : undefined;
   // PLUMBLINE_TIMING=1: each stage's milliseconds on stderr, with the time since the process started
   // (DEVELOPERS.md, "Where a build's time goes").
-  const timing = process.env.PLUMBLINE_TIMING ? (stage: string, ms: number) => io.err(`timing: ${stage.padEnd(48)} ${ms.toFixed(0).padStart(5)} ms, at ${performance.now().toFixed(0)} ms`) : undefined;
+  const timing = io.timing ? (stage: string, ms: number) => io.err(`timing: ${stage.padEnd(48)} ${ms.toFixed(0).padStart(5)} ms, at ${performance.now().toFixed(0)} ms`) : undefined;
   let clock = performance.now();
   const lap = (stage: string) => {
     timing?.(stage, performance.now() - clock);

@@ -16,6 +16,8 @@ export interface Io {
   ask?(question: string): Promise<string>;
   /** Today's date (YYYY-MM-DD), the default date of ledger rows; read from the clock at the edge. */
   readonly today?: string;
+  /** Each stage's time is wanted on stderr (PLUMBLINE_TIMING=1). */
+  readonly timing?: boolean;
 }
 
 /** A user's mistake in how plumbline was called: printed as one line, exit 2, no stack. */
