@@ -11,7 +11,7 @@ import type { IsoDate } from './model.ts';
 import { type PackItem, type PackTree, buildPackTree, madeHeadings } from './pack/content.ts';
 import type { Brief } from './pack/brief.ts';
 import { type MadeSection, madeOf, nodesDigest } from './pack/made-section.ts';
-import { MarkedJson, WrittenJson, jsonBytes, jsonChunks } from './pack/json-bytes.ts';
+import { MarkedJson, WrittenJson, jsonBytes, jsonChunks, plainJsonBytes } from './pack/json-bytes.ts';
 import { type FileSink, type FileStamp, type SunkFile, type UnfilledFile, fillFile, stampOf, writePieces } from './pack/write.ts';
 import { type KnownText, type PagePart, type SvgJob, type TextPagesInput, writeTextPagesHere } from './pack/text-pages.ts';
 import { type PagesWorker, startPagesWorker, startsPagesWorkerEarly } from './pack/pages-thread.ts';
@@ -185,7 +185,7 @@ function summarise(
     summaryFile = json(document, SUMMARY_LAYOUT);
   }
   const { reviewed, briefs, diagnostics, integrity, exitCode } = review;
-  return { reviewed, briefs, diagnostics, integrity, exitCode, summaryFile, summaryRanges: ranges, recordBytes: json(record), since };
+  return { reviewed, briefs, diagnostics, integrity, exitCode, summaryFile, summaryRanges: ranges, recordBytes: plainJsonBytes(record), since };
 }
 
 

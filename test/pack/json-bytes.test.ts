@@ -1,9 +1,9 @@
 /** jsonBytes writes exactly what JSON.stringify(value, null, 2) + "\n" would, without building one string. */
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
-import { describe, expect, it } from 'vitest';
+import { describe, expect, it, vi } from 'vitest';
 import { LazyList } from '../../src/lazy-list.ts';
-import { MarkedJson, WrittenJson, jsonBytes, jsonChunks } from '../../src/pack/json-bytes.ts';
+import { MarkedJson, WrittenJson, jsonBytes, jsonChunks, plainJsonBytes } from '../../src/pack/json-bytes.ts';
 
 const reference = (v: unknown) => `${JSON.stringify(v, null, 2)}\n`;
 const decode = (b: Uint8Array) => new TextDecoder().decode(b);
@@ -162,5 +162,32 @@ describe('bytes kept from an earlier document (MarkedJson, WrittenJson)', () => 
 
   it('refuses written bytes put at another indentation', () => {
     expect(() => jsonBytes([new WrittenJson(() => new Uint8Array([0x31]), '    ')])).toThrow(/indent/);
+  });
+});
+
+describe('plainJsonBytes (record.json)', () => {
+  const record = { format: 1, asOf: '2026-11-30', period: { from: '2026-11-01', to: '2026-11-30' }, characteristics: [{ id: 'a', name: 'Fill — ±0.1 😀', points: [], signals: [{ rule: 'r1', points: [1, 2] }], recommendation: null }] };
+  it('writes what JSON.stringify(value, null, 2) + "\\n" does', () => {
+    expect(decode(plainJsonBytes(record))).toBe(reference(record));
+    expect(decode(plainJsonBytes([]))).toBe('[]\n');
+  });
+  it('writes piece by piece a document too long for one string (JSON.stringify\'s RangeError), the same bytes, as jsonBytes does', () => {
+    // The whole document's JSON.stringify fails as V8's does past its longest string; the pieces' calls do not.
+    // A record of more nodes than one piece, so that the pieces are its items.
+    const many = { ...record, characteristics: Array.from({ length: 1500 }, (_, i) => ({ ...record.characteristics[0]!, id: `c${i}` })) };
+    const big = { points: Array.from({ length: 5000 }, (_, i) => ({ label: `p${i}`, value: i / 7 })) };
+    const real = JSON.stringify;
+    const spy = vi.spyOn(JSON, 'stringify').mockImplementation((v: unknown, ...rest: unknown[]) => {
+      if (v === many || v === big) throw new RangeError('Invalid string length');
+      return real(v, ...(rest as [])) as string;
+    });
+    try {
+      expect(decode(plainJsonBytes(many))).toBe(real(many, null, 2) + '\n');
+      // jsonBytes likewise, where it would hand the document whole.
+      expect(decode(jsonBytes(big))).toBe(real(big, null, 2) + '\n');
+      expect(spy).toHaveBeenCalled();
+    } finally {
+      spy.mockRestore();
+    }
   });
 });
