@@ -12,14 +12,16 @@
  *   in the system's temporary folder, as Node's own compile cache does
  *   (`module.enableCompileCache`, Node 22, not in Node 20), under the
  *   SHA-256 of the source it was made from and Node's version; V8 checks
- *   it again and ignores one it cannot use. NODE_DISABLE_COMPILE_CACHE=1,
- *   which turns Node's cache off, turns this one off too.
+ *   it again and ignores one it cannot use. The folder is the user's own
+ *   (made private; one another user made or can write to is not used).
+ *   NODE_DISABLE_COMPILE_CACHE=1, which turns Node's cache off, turns this
+ *   one off too.
  *
  * Anything unexpected (the bundle's text not as this version has it, the
  * cache unwritable) falls back to what `require` does, only slower.
  */
 import { createHash } from 'node:crypto';
-import { mkdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
+import { lstatSync, mkdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
 import { Module, createRequire } from 'node:module';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
@@ -32,8 +34,25 @@ export const EAGER_DICTIONARY = 'exports.dictionary = dictionaryDataCompressed.i
 const LAZY_DICTIONARY =
   'var lazyDictionary; Object.defineProperty(exports, "dictionary", { configurable: true, enumerable: true, get: function () { return lazyDictionary || (lazyDictionary = dictionaryDataCompressed.init(BrotliDecompressBuffer)); } });';
 
-/** The folder of compile caches (the system's temporary folder, as Node's own compile cache). */
-export const COMPILE_CACHE = path.join(tmpdir(), 'plumbline-compile-cache');
+/** The folder of compile caches: the system's temporary folder, as Node's own compile cache, one folder per user. */
+export const COMPILE_CACHE = path.join(tmpdir(), `plumbline-compile-cache${typeof process.getuid === 'function' ? `-${process.getuid()}` : ''}`);
+
+/**
+ * Whether the cache folder is this user's alone: compiled code is run as
+ * it is read, so a folder another user made or can write into (the
+ * temporary folder is shared) is not used. Made if missing, private.
+ */
+function privateFolder(dir: string): boolean {
+  try {
+    mkdirSync(dir, { recursive: true, mode: 0o700 });
+    const st = lstatSync(dir);
+    if (!st.isDirectory()) return false;
+    if (typeof process.getuid !== 'function') return true;
+    return st.uid === process.getuid() && (st.mode & 0o022) === 0;
+  } catch {
+    return false;
+  }
+}
 
 export function loadFontkit<T>(): T {
   const require = createRequire(import.meta.url);
@@ -48,7 +67,7 @@ export function loadFontkit<T>(): T {
   const text = Module.wrap(source.replace(EAGER_DICTIONARY, LAZY_DICTIONARY));
   const key = createHash('sha256').update(process.version).update('\0').update(text).digest('hex').slice(0, 32);
   const cacheFile = path.join(COMPILE_CACHE, `fontkit-${key}.v8code`);
-  const caching = !process.env.NODE_DISABLE_COMPILE_CACHE;
+  const caching = !process.env.NODE_DISABLE_COMPILE_CACHE && privateFolder(COMPILE_CACHE);
   let cachedData: Buffer | undefined;
   try {
     cachedData = caching ? readFileSync(cacheFile) : undefined;
@@ -62,9 +81,8 @@ export function loadFontkit<T>(): T {
     // Made after the bundle ran, so that it holds the functions evaluating it compiled; written
     // under a name of its own first, so that a thread reading it never finds half a file.
     try {
-      mkdirSync(COMPILE_CACHE, { recursive: true });
       const temp = `${cacheFile}.${process.pid}-${threadId}`;
-      writeFileSync(temp, script.createCachedData());
+      writeFileSync(temp, script.createCachedData(), { mode: 0o600 });
       renameSync(temp, cacheFile);
     } catch {
       // No cache this time: the next load compiles again.

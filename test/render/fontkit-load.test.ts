@@ -5,7 +5,7 @@
  * package with `require`, on the fonts the pack uses.
  */
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, readFileSync, readdirSync, rmSync } from 'node:fs';
+import { chmodSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, statSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
@@ -44,19 +44,29 @@ describe('fontkit as plumbline loads it', () => {
     }
   });
 
-  it('keeps the compiled code in the temporary folder, and not where NODE_DISABLE_COMPILE_CACHE says not to', () => {
+  it('keeps the compiled code in the temporary folder, in a private folder of the user\'s, and not where NODE_DISABLE_COMPILE_CACHE says not to', () => {
     const load = (env: Record<string, string>) =>
       spawnSync(process.execPath, ['--import', 'tsx', '-e', "import('./src/render/fontkit-load.ts').then((m) => console.log(typeof m.loadFontkit().create))"], {
         cwd: ROOT,
         encoding: 'utf8',
         env: { ...process.env, ...env },
       });
+    const folder = `plumbline-compile-cache-${process.getuid!()}`;
     const off = path.join(temp, 'off');
     const on = path.join(temp, 'on');
     const a = load({ TMPDIR: off, NODE_DISABLE_COMPILE_CACHE: '1' });
     expect(a.stdout.trim()).toBe('function');
-    expect(() => readdirSync(path.join(off, 'plumbline-compile-cache'))).toThrow();
+    expect(() => readdirSync(path.join(off, folder))).toThrow();
     for (let i = 0; i < 2; i++) expect(load({ TMPDIR: on }).stdout.trim()).toBe('function');
-    expect(readdirSync(path.join(on, 'plumbline-compile-cache'))).toEqual([expect.stringMatching(/^fontkit-[0-9a-f]{32}\.v8code$/)]);
+    expect(readdirSync(path.join(on, folder))).toEqual([expect.stringMatching(/^fontkit-[0-9a-f]{32}\.v8code$/)]);
+    // Only its owner may read or write the folder and the file (permission bits from POSIX stat).
+    expect(statSync(path.join(on, folder)).mode & 0o777).toBe(0o700);
+    expect(statSync(path.join(on, folder, readdirSync(path.join(on, folder))[0]!)).mode & 0o077).toBe(0);
+    // A folder others can write into is not used: nothing is read from it or written to it.
+    const shared = path.join(temp, 'shared');
+    mkdirSync(path.join(shared, folder), { recursive: true });
+    chmodSync(path.join(shared, folder), 0o777);
+    expect(load({ TMPDIR: shared }).stdout.trim()).toBe('function');
+    expect(readdirSync(path.join(shared, folder))).toEqual([]);
   });
 });
