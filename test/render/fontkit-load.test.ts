@@ -58,10 +58,18 @@ describe('fontkit as plumbline loads it', () => {
     expect(a.stdout.trim()).toBe('function');
     expect(() => readdirSync(path.join(off, folder))).toThrow();
     for (let i = 0; i < 2; i++) expect(load({ TMPDIR: on }).stdout.trim()).toBe('function');
-    expect(readdirSync(path.join(on, folder))).toEqual([expect.stringMatching(/^fontkit-[0-9a-f]{32}\.v8code$/)]);
+    // The patched text (UTF-16) and V8's code for it, under one key.
+    const kept = readdirSync(path.join(on, folder)).sort();
+    expect(kept).toEqual([expect.stringMatching(/^fontkit-[0-9a-f]{32}\.source$/), expect.stringMatching(/^fontkit-[0-9a-f]{32}\.v8code$/)]);
+    expect(kept[0]!.slice(0, 40)).toBe(kept[1]!.slice(0, 40));
+    const text = readFileSync(path.join(on, folder, kept[0]!)).toString('utf16le');
+    const source = readFileSync(require.resolve('@pdf-lib/fontkit'), 'utf8');
+    expect(text.length).toBeGreaterThan(source.length);
+    expect(text).toContain(source.slice(0, 2000));
+    expect(text).not.toContain(EAGER_DICTIONARY);
     // Only its owner may read or write the folder and the file (permission bits from POSIX stat).
     expect(statSync(path.join(on, folder)).mode & 0o777).toBe(0o700);
-    expect(statSync(path.join(on, folder, readdirSync(path.join(on, folder))[0]!)).mode & 0o077).toBe(0);
+    for (const f of kept) expect(statSync(path.join(on, folder, f)).mode & 0o077).toBe(0);
     // A folder others can write into is not used: nothing is read from it or written to it.
     const shared = path.join(temp, 'shared');
     mkdirSync(path.join(shared, folder), { recursive: true });
