@@ -136,6 +136,39 @@ describe('the pack folder a build opens before it plans', () => {
     expect(() => fillFile(unfilled.fill)).toThrow(/changed during the build/);
     discardPackFolder(folder);
   });
+
+  it('holds what is written after the first room for fillFile to write, up to its limit; past it, writes at once', () => {
+    const source = path.join(temp, 'earlier-held.json');
+    const earlier = Buffer.from(Array.from({ length: 500_000 }, (_, i) => `${i % 89};`).join(''));
+    writeFileSync(source, earlier);
+    const pieces = [Buffer.from('{"items": ['), Buffer.from(',\n    '), Buffer.from(',\n    '), Buffer.from('x'.repeat(3_000_000)), Buffer.from(']}\n')];
+    const ranges = [{ file: source, start: 0, end: 400_000 }, { file: source, start: 5, end: 17 }, { file: source, start: 500_000, end: 1_200_000 }];
+    // The expected file joined here, piece, range, piece, range…; its hash from Node's crypto module.
+    const expected = Buffer.concat([pieces[0]!, earlier.subarray(0, 400_000), pieces[1]!, earlier.subarray(5, 17), pieces[2]!, earlier.subarray(500_000, 1_200_000), pieces[3]!, pieces[4]!]);
+    for (const [limit, heldCount] of [[undefined, 4], [10, 2]] as const) {
+      const folder = openPackFolder(path.join(temp, `held-${limit ?? 'default'}`));
+      const sink = fileSink(folder, 'summary.json', limit);
+      sink.write(pieces[0]!);
+      sink.copy(ranges[0]!);
+      sink.write(pieces[1]!);
+      sink.copy(ranges[1]!);
+      sink.write(pieces[2]!);
+      sink.copy(ranges[2]!);
+      sink.write(pieces[3]!);
+      sink.write(pieces[4]!);
+      const unfilled = sink.close();
+      if (!('fill' in unfilled)) throw new Error('no room was left');
+      // Held: everything after the first room, within the limit (with 10 bytes: the first separator and the
+      // closing bracket, each direct write between them written at once).
+      expect(unfilled.fill.held?.length ?? 0).toBe(heldCount);
+      const before = readFileSync(path.join(folder.temp, 'summary.json'));
+      const separatorAt = pieces[0]!.length + 400_000;
+      expect(before.subarray(separatorAt, separatorAt + pieces[1]!.length).every((b) => b === 0), 'a held separator is not written before fillFile').toBe(true);
+      expect(fillFile(unfilled.fill)).toEqual({ bytes: expected.length, sha256: createHash('sha256').update(expected).digest('hex') });
+      expect(readFileSync(path.join(folder.temp, 'summary.json')).equals(expected)).toBe(true);
+      discardPackFolder(folder);
+    }
+  });
 });
 
 describe('removing the previous pack', () => {
