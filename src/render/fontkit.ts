@@ -88,7 +88,9 @@ const shapedFor = new WeakMap<object, { readonly runs: Map<string, Run>; fresh: 
  * Layouts an earlier build made with the font file `data` (the same bytes:
  * the caller checks), taken instead of shaping those words again. A rebuild
  * lays out the pack's global pages afresh, and fontkit took 0.15–0.2 s of
- * it to shape their words, the same words each time.
+ * it to shape their words, the same words each time. Given before the font
+ * of `data` is made (`fontkit.create`), which reads the pairs and plain
+ * characters once; a font made earlier in the process keeps its own.
  */
 export function rememberWords(data: Uint8Array, layouts: StoredLayouts): void {
   storedFor.set(data, layouts);
