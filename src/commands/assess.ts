@@ -133,7 +133,7 @@ export async function build(args: readonly string[], io: Io): Promise<number> {
   const outDir = values.out;
   const json = values.json === true;
   const asOf = typeof values.date === 'string' ? values.date : undefined;
-  // PLUMBLINE_TIMING=1: each stage's milliseconds on stderr, with the time since the process started
+  // With PLUMBLINE_TIMING=1 (io.timing): each stage's milliseconds on stderr, with the time since the process started
   // (DEVELOPERS.md, "Where a build's time goes").
   const timing = io.timing ? (stage: string, ms: number) => io.err(`timing: ${stage.padEnd(48)} ${ms.toFixed(0).padStart(5)} ms, at ${performance.now().toFixed(0)} ms`) : undefined;
   let clock = performance.now();
