@@ -47,6 +47,13 @@ function expectDamagedFileIgnored(ws: string, out: string, file: string): void {
   expect(packOnly(out)).toEqual(packOnly(cold));
 }
 
+/** A copy of the demo workspace, `<name>-ws`, and the folder its pack goes to, `<name>-out`. */
+function demoCopy(name: string): { ws: string; out: string } {
+  const ws = path.join(temp, `${name}-ws`);
+  cpSync(path.join(ROOT, 'data/demo'), ws, { recursive: true });
+  return { ws, out: path.join(temp, `${name}-out`) };
+}
+
 const json = (r: { out: string }) => JSON.parse(r.out) as { exitCode: number; cache: { reused: number; redone: number } | null };
 
 describe('the build cache', () => {
@@ -332,9 +339,7 @@ describe('what the cache keeps', () => {
 
 describe('made sections', () => {
   // The expected packs are cold builds of the same inputs, in the same process, without a cache.
-  const ws = path.join(temp, 'made-ws');
-  cpSync(path.join(ROOT, 'data/demo'), ws, { recursive: true });
-  const out = path.join(temp, 'made-out');
+  const { ws, out } = demoCopy('made');
 
   async function plans(options: { readonly templateChange?: string } = {}) {
     const { planPack } = await import('../src/build.ts');
@@ -402,9 +407,7 @@ describe('made sections', () => {
 });
 
 describe('review.yaml through the cache', () => {
-  const ws = path.join(temp, 'review-ws');
-  cpSync(path.join(ROOT, 'data/demo'), ws, { recursive: true });
-  const out = path.join(temp, 'review-out');
+  const { ws, out } = demoCopy('review');
   const memo = path.join(out, CACHE, 'review.v8');
 
   it('keeps the settings read from review.yaml, and reads the file again once its text changes', () => {
@@ -431,9 +434,7 @@ describe('review.yaml through the cache', () => {
 });
 
 describe('the fonts\' layouts through the cache', () => {
-  const ws = path.join(temp, 'words-ws');
-  cpSync(path.join(ROOT, 'data/demo'), ws, { recursive: true });
-  const out = path.join(temp, 'words-out');
+  const { ws, out } = demoCopy('words');
   const file = path.join(out, CACHE, 'words.v8');
 
   it('keeps each face\'s words and pairs by its font file\'s SHA-256, and a damaged file changes no byte of the pack', () => {
@@ -475,9 +476,7 @@ describe('the fonts\' layouts through the cache', () => {
 });
 
 describe('the templates\' trees through the cache', () => {
-  const ws = path.join(temp, 'trees-ws');
-  cpSync(path.join(ROOT, 'data/demo'), ws, { recursive: true });
-  const out = path.join(temp, 'trees-out');
+  const { ws, out } = demoCopy('trees');
   const file = path.join(out, CACHE, 'templates.v8');
 
   it('keeps each template\'s tree by its text, linked while the templates are the same, and a damaged file changes no byte of the pack', () => {
@@ -498,9 +497,7 @@ describe('the templates\' trees through the cache', () => {
 });
 
 describe('the previous record, as this tool wrote it', () => {
-  const ws = path.join(temp, 'record-ws');
-  cpSync(path.join(ROOT, 'data/demo'), ws, { recursive: true });
-  const out = path.join(temp, 'record-out');
+  const { ws, out } = demoCopy('record');
   const earlier = path.join(temp, 'record-earlier');
 
   it('is taken as written while its stamp is the same, and checked as untrusted input once it changed', () => {
